@@ -1,0 +1,7 @@
+import { defineConfig } from 'vite';
+
+export default defineConfig({
+  root: 'web',
+  base: './',
+  build: { outDir: '../dist/web', emptyOutDir: true },
+});
