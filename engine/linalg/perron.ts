@@ -11,7 +11,9 @@
  * @example perronRoot(fromRows([[0.5, 0.4], [0.2, 0.3]])) // ≈ { lower: 0.7, upper: 0.7, ... }
  */
 import { InputError } from '../errors';
+import { stronglyConnected } from './graph';
 import type { Matrix } from './matrix';
+import { submatrix } from './matrix';
 
 export interface PerronRoot {
   /** A lower bound on ρ(A). */
@@ -66,6 +68,50 @@ export function perronRoot(a: Matrix, options: PerronOptions = {}): PerronRoot {
   const settled = () =>
     upper - lower <= tol * Math.max(1, upper) || (threshold !== undefined && (upper < threshold || lower >= threshold));
   if (settled()) return { lower, upper, estimate: (lower + upper) / 2, iterations: 0 };
+  const comps = stronglyConnected(a);
+  if (comps.length === 1) return iterate(a, lower, upper, tol, maxIt, threshold);
+  // A reducible matrix: ρ(A) is the largest root of its irreducible diagonal blocks, and the
+  // Collatz–Wielandt bounds only close in on each block separately.
+  let lo = 0;
+  let hi = 0;
+  let its = 0;
+  for (const comp of comps) {
+    if (comp.length === 1) {
+      const v = data[comp[0]! * n + comp[0]!]!;
+      lo = Math.max(lo, v);
+      hi = Math.max(hi, v);
+      continue;
+    }
+    const r = iterate(submatrix(a, comp, comp), 0, Infinity, tol, maxIt, threshold);
+    its += r.iterations;
+    lo = Math.max(lo, r.lower);
+    hi = Math.max(hi, r.upper);
+    if (threshold !== undefined && lo >= threshold) break;
+  }
+  lower = Math.max(lower, lo);
+  upper = Math.min(upper, hi);
+  if (lower > upper) lower = upper;
+  return { lower, upper, estimate: (lower + upper) / 2, iterations: its };
+}
+
+/** Power iteration on A + I with Collatz–Wielandt bounds, starting from the given bounds. */
+function iterate(a: Matrix, lower: number, upper: number, tol: number, maxIt: number, threshold: number | undefined): PerronRoot {
+  const n = a.rows;
+  const { data } = a;
+  if (upper === Infinity) {
+    let cmax = 0;
+    let cmin = Infinity;
+    const col = new Float64Array(n);
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) col[j] += data[i * n + j]!;
+    for (let j = 0; j < n; j++) {
+      cmax = Math.max(cmax, col[j]!);
+      cmin = Math.min(cmin, col[j]!);
+    }
+    upper = cmax;
+    lower = Math.max(lower, cmin);
+  }
+  const settled = () =>
+    upper - lower <= tol * Math.max(1, upper) || (threshold !== undefined && (upper < threshold || lower >= threshold));
   let x = new Float64Array(n).fill(1);
   const y = new Float64Array(n);
   let it = 0;

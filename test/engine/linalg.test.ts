@@ -144,6 +144,19 @@ describe('Perron root bounds and strongly connected components', () => {
     expect(p.estimate).toBeCloseTo(0.7, 10);
   });
 
+  it('closes in on the root of a reducible matrix block by block (common practice: ρ(A) is the largest root of its irreducible diagonal blocks)', () => {
+    // Block {0, 1} has root 0.7; sector 2 has a zero row (nobody buys from it); sector 3 a self-loop of 0.2.
+    const a = fromRows([
+      [0.5, 0.4, 0.1, 0.0],
+      [0.2, 0.3, 0.1, 0.1],
+      [0.0, 0.0, 0.0, 0.0],
+      [0.0, 0.0, 0.3, 0.2],
+    ]);
+    const p = perronRoot(a, { tolerance: 1e-12 });
+    expect(p.lower).toBeCloseTo(0.7, 10);
+    expect(p.upper).toBeCloseTo(0.7, 10);
+  });
+
   it('finds the strongly connected components', () => {
     // 0 ⇄ 1, 1 → 2, 2 ⇄ 3, 4 alone.
     const a = fromRows([
