@@ -1,0 +1,93 @@
+/**
+ * Horizontal grouped bars: one group per category (sector), one bar per series (for example
+ * Type I and Type II multipliers). Sorted by the first series, largest first; a reference line
+ * can mark a value such as 1 (a multiplier of 1 means no ripple at all).
+ */
+import { scaleLinear } from 'd3';
+import type { Chart } from './svg';
+import { clip, el, escapeXml, svgRoot, text } from './svg';
+import type { Formatter } from './format';
+import { numberFormat } from './format';
+import { AXIS, GRID, INK, SERIES_COLOURS } from './palette';
+
+export interface BarSeries {
+  label: string;
+  values: ArrayLike<number>;
+  colour?: string;
+}
+
+export interface GroupedBarsInput {
+  title: string;
+  unit: string;
+  categories: string[];
+  series: BarSeries[];
+  limit?: number;
+  reference?: number;
+  /** Keep the input order instead of sorting by the first series. */
+  keepOrder?: boolean;
+  width?: number;
+  format?: Formatter;
+}
+
+export function groupedBars(input: GroupedBarsInput): Chart {
+  const { title, unit, categories, series } = input;
+  const fmt = input.format ?? numberFormat();
+  const width = input.width ?? 720;
+  const limit = input.limit ?? 30;
+  const first = series[0]?.values ?? [];
+  let order = categories.map((_, i) => i);
+  if (!input.keepOrder) order.sort((a, b) => (first[b] ?? 0) - (first[a] ?? 0));
+  order = order.slice(0, limit);
+  const labelW = 200;
+  const right = 60;
+  const top = 46;
+  const barH = 12;
+  const groupH = series.length * barH + 8;
+  const height = top + order.length * groupH + 30;
+  let lo = Math.min(0, input.reference ?? 0);
+  let hi = input.reference ?? 0;
+  for (const s of series) {
+    for (const i of order) {
+      const v = s.values[i] ?? 0;
+      if (Number.isFinite(v)) {
+        lo = Math.min(lo, v);
+        hi = Math.max(hi, v);
+      }
+    }
+  }
+  if (lo === hi) hi = lo + 1;
+  const x = scaleLinear().domain([lo, hi]).nice().range([labelW, width - right]);
+  const parts: string[] = [];
+  let lx = labelW;
+  series.forEach((s, k) => {
+    const c = s.colour ?? SERIES_COLOURS[k % SERIES_COLOURS.length]!;
+    parts.push(el('rect', { x: lx, y: 8, width: 12, height: 12, fill: c }));
+    parts.push(text({ x: lx + 16, y: 18, fill: INK }, s.label));
+    lx += 24 + s.label.length * 7;
+  });
+  for (const t of x.ticks(6)) {
+    parts.push(el('line', { x1: x(t), x2: x(t), y1: top - 6, y2: height - 26, stroke: t === 0 ? AXIS : GRID }));
+    parts.push(text({ x: x(t), y: height - 12, 'text-anchor': 'middle', fill: AXIS, 'font-size': 11 }, fmt(t)));
+  }
+  parts.push(text({ x: width - right, y: 34, 'text-anchor': 'end', fill: AXIS, 'font-size': 11 }, unit));
+  order.forEach((i, r) => {
+    const y0 = top + r * groupH;
+    parts.push(text({ x: labelW - 8, y: y0 + (series.length * barH) / 2 + 4, 'text-anchor': 'end', fill: INK }, clip(categories[i]!, 30)));
+    series.forEach((s, k) => {
+      const v = s.values[i] ?? 0;
+      if (!Number.isFinite(v)) return;
+      const c = s.colour ?? SERIES_COLOURS[k % SERIES_COLOURS.length]!;
+      const a = Math.min(x(0), x(v));
+      const b = Math.max(x(0), x(v));
+      const y = y0 + k * barH;
+      parts.push(el('rect', { x: a, y, width: Math.max(0.5, b - a), height: barH - 2, fill: c }, el('title', {}, escapeXml(`${categories[i]}: ${s.label} ${fmt(v)} ${unit}`))));
+      parts.push(text({ x: v >= 0 ? b + 3 : a - 3, y: y + barH - 3, 'text-anchor': v >= 0 ? 'start' : 'end', fill: INK, 'font-size': 10 }, fmt(v)));
+    });
+  });
+  if (input.reference !== undefined) {
+    const rx = x(input.reference);
+    parts.push(el('line', { x1: rx, x2: rx, y1: top - 6, y2: height - 26, stroke: AXIS, 'stroke-dasharray': '4 3' }));
+  }
+  const shown = order.length < categories.length ? ` The top ${order.length} of ${categories.length} are shown.` : '';
+  return svgRoot(width, height, title, `Bars of ${series.map((s) => s.label).join(' and ')} by category, in ${unit}.${shown}`, parts.join(''));
+}

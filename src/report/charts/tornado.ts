@@ -1,0 +1,75 @@
+/**
+ * The sensitivity tornado: for each of the most influential coefficients, the result when that
+ * coefficient is at its low and at its high value, as a bar either side of the base result.
+ * Widest bar on top.
+ */
+import { scaleLinear } from 'd3';
+import type { Chart } from './svg';
+import { clip, el, escapeXml, svgRoot, text } from './svg';
+import type { Formatter } from './format';
+import { numberFormat } from './format';
+import { AXIS, GRID, INK, SERIES_COLOURS } from './palette';
+
+export interface TornadoItem {
+  label: string;
+  /** The result with the input at its low value, and at its high value. */
+  low: number;
+  high: number;
+}
+
+export interface TornadoInput {
+  title: string;
+  unit: string;
+  base: number;
+  items: TornadoItem[];
+  lowLabel?: string;
+  highLabel?: string;
+  width?: number;
+  format?: Formatter;
+}
+
+export function tornado(input: TornadoInput): Chart {
+  const fmt = input.format ?? numberFormat();
+  const width = input.width ?? 720;
+  const items = [...input.items].sort((a, b) => Math.abs(b.high - b.low) - Math.abs(a.high - a.low));
+  const labelW = 240;
+  const right = 70;
+  const top = 46;
+  const barH = 18;
+  const gap = 6;
+  const height = top + items.length * (barH + gap) + 30;
+  let lo = input.base;
+  let hi = input.base;
+  for (const it of items) {
+    lo = Math.min(lo, it.low, it.high);
+    hi = Math.max(hi, it.low, it.high);
+  }
+  if (lo === hi) {
+    lo -= 1;
+    hi += 1;
+  }
+  const x = scaleLinear().domain([lo, hi]).nice().range([labelW, width - right]);
+  const cLow = SERIES_COLOURS[0]!;
+  const cHigh = SERIES_COLOURS[5]!;
+  const parts: string[] = [];
+  parts.push(el('rect', { x: labelW, y: 8, width: 12, height: 12, fill: cLow }));
+  parts.push(text({ x: labelW + 16, y: 18, fill: INK }, input.lowLabel ?? 'Input at its low value'));
+  parts.push(el('rect', { x: labelW + 190, y: 8, width: 12, height: 12, fill: cHigh }));
+  parts.push(text({ x: labelW + 206, y: 18, fill: INK }, input.highLabel ?? 'Input at its high value'));
+  for (const t of x.ticks(6)) {
+    parts.push(el('line', { x1: x(t), x2: x(t), y1: top - 6, y2: height - 26, stroke: GRID }));
+    parts.push(text({ x: x(t), y: height - 12, 'text-anchor': 'middle', fill: AXIS, 'font-size': 11 }, fmt(t)));
+  }
+  parts.push(text({ x: width - right, y: 34, 'text-anchor': 'end', fill: AXIS, 'font-size': 11 }, input.unit));
+  items.forEach((it, r) => {
+    const y = top + r * (barH + gap);
+    parts.push(text({ x: labelW - 8, y: y + barH - 5, 'text-anchor': 'end', fill: INK }, clip(it.label, 36)));
+    for (const [v, c, w] of [[it.low, cLow, 'low'], [it.high, cHigh, 'high']] as const) {
+      const a = Math.min(x(input.base), x(v));
+      const b = Math.max(x(input.base), x(v));
+      parts.push(el('rect', { x: a, y, width: Math.max(0.5, b - a), height: barH, fill: c }, el('title', {}, escapeXml(`${it.label}: ${w} ${fmt(v)} ${input.unit}`))));
+    }
+  });
+  parts.push(el('line', { x1: x(input.base), x2: x(input.base), y1: top - 6, y2: height - 26, stroke: INK }));
+  return svgRoot(width, height, input.title, `Tornado of ${items.length} inputs around the base result ${fmt(input.base)} ${input.unit}.`, parts.join(''));
+}
