@@ -14,6 +14,8 @@
  */
 import { InputError, SingularMatrixError } from '../errors';
 import { gemmSub } from './gemm';
+import type { DenseKernel, Workspace } from './kernel';
+import { WASM_MIN_N, kernelFor } from './kernel';
 import type { Matrix } from './matrix';
 import { norm1 } from './matrix';
 
@@ -22,9 +24,36 @@ export interface LUOptions {
   blockSize?: number;
   /** Factor this array in place instead of copying it (the caller gives it up). */
   overwrite?: boolean;
+  /**
+   * The dense kernel (default: `kernelFor(n)`, see kernel.ts). Every kernel gives the same
+   * bits; the choice changes speed only.
+   */
+  kernel?: DenseKernel;
 }
 
-export const DEFAULT_BLOCK = 64;
+/** C ← C − A B on blocks (the signature of `gemmSub`). */
+type Gemm = typeof gemmSub;
+
+/** A kernel call when all three blocks live in the workspace, the JS kernel otherwise. */
+function gemmOn(ws: Workspace): Gemm {
+  const f = ws.f64;
+  return (m, nc, kc, a, aOff, lda, b, bOff, ldb, c, cOff, ldc) => {
+    if (a === f && b === f && c === f) ws.gemmSub(m, nc, kc, aOff, lda, bOff, ldb, cOff, ldc);
+    else gemmSub(m, nc, kc, a, aOff, lda, b, bOff, ldb, c, cOff, ldc);
+  };
+}
+
+/** Right-hand sides below this count are solved in place in JavaScript (no copy into a workspace). */
+const MANY_MIN = 8;
+
+/**
+ * Panel width of the outer blocked loop. Inside a panel the factorisation recurses on halves
+ * (so that nearly all the work, panel included, goes through the kernel) down to `BASE`
+ * columns, which are done one column at a time.
+ */
+export const DEFAULT_BLOCK = 256;
+/** Width below which panels, triangular solves and triangular inverses stop recursing. */
+const BASE = 16;
 
 export class LU {
   readonly n: number;
@@ -36,6 +65,8 @@ export class LU {
   readonly singularColumn: number;
   /** The 1-norm of the matrix that was factored (for the condition estimate). */
   readonly norm1: number;
+  /** The kernel that factored the matrix (and that the many-column solves use). */
+  readonly kernel: DenseKernel;
 
   constructor(a: Matrix, options: LUOptions = {}) {
     if (a.rows !== a.cols) {
@@ -44,9 +75,45 @@ export class LU {
     const n = a.rows;
     this.n = n;
     this.norm1 = norm1(a);
-    this.lu = options.overwrite ? a.data : a.data.slice();
     this.pivots = new Int32Array(n);
-    this.singularColumn = factor(this.lu, n, this.pivots, options.blockSize ?? DEFAULT_BLOCK);
+    const nb = Math.max(1, Math.floor(options.blockSize ?? DEFAULT_BLOCK));
+    const kernel = options.kernel ?? kernelFor(n);
+    this.kernel = kernel;
+    if (kernel.adopt) {
+      this.lu = options.overwrite ? a.data : a.data.slice();
+      this.singularColumn = factor(this.lu, n, this.pivots, nb, gemmOn(kernel.adopt(this.lu)));
+    } else {
+      // Copy into the kernel's memory, factor there, and keep (or copy back) the result.
+      const ws = kernel.workspace(n * n);
+      ws.f64.set(a.data);
+      this.singularColumn = factor(ws.f64, n, this.pivots, nb, gemmOn(ws));
+      if (options.overwrite) {
+        a.data.set(ws.f64);
+        this.lu = a.data;
+      } else {
+        this.lu = ws.shared ? ws.f64.slice() : ws.f64;
+      }
+      ws.release();
+    }
+  }
+
+  /**
+   * Run `f` on L U and a copy of `x` (n × r) in one array through the kernel, and return the
+   * new `x`. Few columns, or a kernel that computes on any array, go straight to JavaScript.
+   */
+  private withKernel(x: Float64Array, r: number, f: (lu: Float64Array, lo: number, x: Float64Array, xo: number, g: Gemm) => void): Float64Array {
+    const { n, kernel } = this;
+    if (kernel.adopt || r < MANY_MIN || n < WASM_MIN_N) {
+      f(this.lu, 0, x, 0, gemmSub);
+      return x;
+    }
+    const ws = kernel.workspace(n * n + n * r);
+    ws.f64.set(this.lu, 0);
+    ws.f64.set(x, n * n);
+    f(ws.f64, 0, ws.f64, n * n, gemmOn(ws));
+    x.set(ws.f64.subarray(n * n, n * n + n * r));
+    ws.release();
+    return x;
   }
 
   get isSingular(): boolean {
@@ -142,8 +209,10 @@ export class LU {
     const r = b.cols;
     const x = options.overwrite ? b.data : b.data.slice();
     permuteRows(x, r, this.pivots);
-    this.forwardMany(x, r);
-    this.backwardMany(x, r);
+    this.withKernel(x, r, (lu, lo, y, yo, g) => {
+      lowerSolve(lu, lo, n, y, yo, r, n, r, g);
+      upperSolve(lu, lo, n, y, yo, r, n, r, g);
+    });
     return { rows: n, cols: r, data: x };
   }
 
@@ -164,32 +233,18 @@ export class LU {
   }
 
   /**
-   * A⁻¹, formed only when it is itself the result wanted. A⁻¹ = U⁻¹ L⁻¹ P: L⁻¹ is computed with
-   * its lower-triangular shape exploited (n³/3 multiply-adds), then U is solved against it (n³),
-   * then the columns are put back in order.
+   * A⁻¹, formed only when it is itself the result wanted. A⁻¹ = U⁻¹ L⁻¹ P: L⁻¹ is computed
+   * by recursion on halves, L⁻¹ = [[L₁₁⁻¹, 0], [−L₂₂⁻¹ L₂₁ L₁₁⁻¹, L₂₂⁻¹]], then U is solved
+   * against it, then the columns are put back in order.
    */
   inverse(): Matrix {
     this.ensureRegular();
-    const { n, lu } = this;
+    const { n } = this;
     const y = new Float64Array(n * n);
-    for (let i = 0; i < n; i++) y[i * n + i] = 1;
-    // Y = L⁻¹, block row by block row; Y[i, j] = 0 for j > i.
-    const nb = DEFAULT_BLOCK;
-    for (let i0 = 0; i0 < n; i0 += nb) {
-      const ie = Math.min(i0 + nb, n);
-      gemmSub(ie - i0, i0, i0, lu, i0 * n, n, y, 0, n, y, i0 * n, n);
-      for (let i = i0 + 1; i < ie; i++) {
-        const yi = i * n;
-        const li = i * n;
-        for (let k = i0; k < i; k++) {
-          const l = lu[li + k]!;
-          if (l === 0) continue;
-          const yk = k * n;
-          for (let j = 0; j <= k; j++) y[yi + j] = y[yi + j]! - l * y[yk + j]!;
-        }
-      }
-    }
-    this.backwardMany(y, n);
+    this.withKernel(y, n, (lu, lo, x, xo, g) => {
+      lowerInverse(lu, lo, n, x, xo, n, n, g);
+      upperSolve(lu, lo, n, x, xo, n, n, n, g);
+    });
     // Column k of U⁻¹L⁻¹ is column perm(k) of A⁻¹, where perm applies the interchanges in order.
     const perm = new Int32Array(n);
     for (let i = 0; i < n; i++) perm[i] = i;
@@ -209,49 +264,86 @@ export class LU {
     }
     return { rows: n, cols: n, data: y };
   }
+}
 
-  /** Solve L Y = X in place (L unit lower), X `n × r`. */
-  private forwardMany(x: Float64Array, r: number): void {
-    const { n, lu } = this;
-    const nb = DEFAULT_BLOCK;
-    for (let i0 = 0; i0 < n; i0 += nb) {
-      const ie = Math.min(i0 + nb, n);
-      gemmSub(ie - i0, r, i0, lu, i0 * n, n, x, 0, r, x, i0 * r, r);
-      for (let i = i0 + 1; i < ie; i++) {
-        const xi = i * r;
-        const li = i * n;
-        for (let k = i0; k < i; k++) {
-          const l = lu[li + k]!;
-          if (l === 0) continue;
-          const xk = k * r;
-          for (let j = 0; j < r; j++) x[xi + j] = x[xi + j]! - l * x[xk + j]!;
-        }
+/**
+ * X ← L⁻¹ X, L the m × m unit lower triangle at `lo` of `l` (leading dimension ldl), X the
+ * m × r block at `xo` of `x` (leading dimension ldx). Recursion on halves: solve the top,
+ * subtract L₂₁ X₁ from the bottom through the kernel, solve the bottom.
+ */
+function lowerSolve(l: Float64Array, lo: number, ldl: number, x: Float64Array, xo: number, ldx: number, m: number, r: number, g: Gemm): void {
+  if (m <= BASE) {
+    for (let i = 1; i < m; i++) {
+      const xi = xo + i * ldx;
+      const li = lo + i * ldl;
+      for (let k = 0; k < i; k++) {
+        const v = l[li + k]!;
+        if (v === 0) continue;
+        const xk = xo + k * ldx;
+        for (let j = 0; j < r; j++) x[xi + j] = x[xi + j]! - v * x[xk + j]!;
       }
     }
+    return;
   }
+  const m1 = half(m);
+  lowerSolve(l, lo, ldl, x, xo, ldx, m1, r, g);
+  g(m - m1, r, m1, l, lo + m1 * ldl, ldl, x, xo, ldx, x, xo + m1 * ldx, ldx);
+  lowerSolve(l, lo + m1 * ldl + m1, ldl, x, xo + m1 * ldx, ldx, m - m1, r, g);
+}
 
-  /** Solve U Y = X in place (U upper, non-unit), X `n × r`. */
-  private backwardMany(x: Float64Array, r: number): void {
-    const { n, lu } = this;
-    const nb = DEFAULT_BLOCK;
-    const last = Math.floor((n - 1) / nb) * nb;
-    for (let i0 = last; i0 >= 0; i0 -= nb) {
-      const ie = Math.min(i0 + nb, n);
-      gemmSub(ie - i0, r, n - ie, lu, i0 * n + ie, n, x, ie * r, r, x, i0 * r, r);
-      for (let i = ie - 1; i >= i0; i--) {
-        const xi = i * r;
-        const li = i * n;
-        for (let k = i + 1; k < ie; k++) {
-          const u = lu[li + k]!;
-          if (u === 0) continue;
-          const xk = k * r;
-          for (let j = 0; j < r; j++) x[xi + j] = x[xi + j]! - u * x[xk + j]!;
-        }
-        const d = 1 / lu[li + i]!;
-        for (let j = 0; j < r; j++) x[xi + j] = x[xi + j]! * d;
+/** X ← U⁻¹ X, U the m × m upper triangle (non-unit) at `lo` of `l`; as `lowerSolve`, bottom first. */
+function upperSolve(l: Float64Array, lo: number, ldl: number, x: Float64Array, xo: number, ldx: number, m: number, r: number, g: Gemm): void {
+  if (m <= BASE) {
+    for (let i = m - 1; i >= 0; i--) {
+      const xi = xo + i * ldx;
+      const li = lo + i * ldl;
+      for (let k = i + 1; k < m; k++) {
+        const u = l[li + k]!;
+        if (u === 0) continue;
+        const xk = xo + k * ldx;
+        for (let j = 0; j < r; j++) x[xi + j] = x[xi + j]! - u * x[xk + j]!;
+      }
+      const d = 1 / l[li + i]!;
+      for (let j = 0; j < r; j++) x[xi + j] = x[xi + j]! * d;
+    }
+    return;
+  }
+  const m1 = half(m);
+  upperSolve(l, lo + m1 * ldl + m1, ldl, x, xo + m1 * ldx, ldx, m - m1, r, g);
+  g(m1, r, m - m1, l, lo + m1, ldl, x, xo + m1 * ldx, ldx, x, xo, ldx);
+  upperSolve(l, lo, ldl, x, xo, ldx, m1, r, g);
+}
+
+/**
+ * Y ← L⁻¹ for the m × m unit lower triangle L at `lo` of `l`, into the zeroed m × m block at
+ * `yo` of `y`: Y₁₁ = L₁₁⁻¹, Y₂₂ = L₂₂⁻¹, Y₂₁ = −L₂₂⁻¹ (L₂₁ Y₁₁).
+ */
+function lowerInverse(l: Float64Array, lo: number, ldl: number, y: Float64Array, yo: number, ldy: number, m: number, g: Gemm): void {
+  if (m <= BASE) {
+    for (let i = 0; i < m; i++) {
+      const yi = yo + i * ldy;
+      const li = lo + i * ldl;
+      y[yi + i] = 1;
+      for (let k = 0; k < i; k++) {
+        const v = l[li + k]!;
+        if (v === 0) continue;
+        const yk = yo + k * ldy;
+        for (let j = 0; j <= k; j++) y[yi + j] = y[yi + j]! - v * y[yk + j]!;
       }
     }
+    return;
   }
+  const m1 = half(m);
+  lowerInverse(l, lo, ldl, y, yo, ldy, m1, g);
+  lowerInverse(l, lo + m1 * ldl + m1, ldl, y, yo + m1 * ldy + m1, ldy, m - m1, g);
+  g(m - m1, m1, m1, l, lo + m1 * ldl, ldl, y, yo, ldy, y, yo + m1 * ldy, ldy);
+  lowerSolve(l, lo + m1 * ldl + m1, ldl, y, yo + m1 * ldy, ldy, m - m1, m1, g);
+}
+
+/** The split of a recursion: about half, rounded to a multiple of 8 when that is possible. */
+function half(m: number): number {
+  const h = (m >> 1) & ~7;
+  return h > 0 ? h : m >> 1;
 }
 
 /** Apply the interchanges in LAPACK order to the rows of a row-major `n × r` array. */
@@ -270,61 +362,70 @@ function permuteRows(x: Float64Array, r: number, pivots: Int32Array): void {
 }
 
 /**
- * Right-looking blocked LU on a row-major array, in place. Returns LAPACK's `info`: the 1-based
- * column of the first zero pivot, or 0.
+ * Right-looking blocked LU on a row-major array, in place: for each panel of `nb` columns,
+ * factor the panel (recursively), solve for the block row of U, and update the trailing matrix
+ * through the kernel. Returns LAPACK's `info`: the 1-based column of the first zero pivot, or 0.
  */
-function factor(a: Float64Array, n: number, piv: Int32Array, nb: number): number {
+function factor(a: Float64Array, n: number, piv: Int32Array, nb: number, g: Gemm): number {
   let info = 0;
   for (let k0 = 0; k0 < n; k0 += nb) {
     const ke = Math.min(k0 + nb, n);
-    // Panel: columns k0..ke−1, rows k0..n−1, with whole-row interchanges.
-    for (let k = k0; k < ke; k++) {
-      let p = k;
-      let best = Math.abs(a[k * n + k]!);
-      for (let i = k + 1; i < n; i++) {
-        const v = Math.abs(a[i * n + k]!);
-        if (v > best) {
-          best = v;
-          p = i;
-        }
-      }
-      piv[k] = p;
-      if (p !== k) {
-        const rk = k * n;
-        const rp = p * n;
-        for (let j = 0; j < n; j++) {
-          const t = a[rk + j]!;
-          a[rk + j] = a[rp + j]!;
-          a[rp + j] = t;
-        }
-      }
-      const rk = k * n;
-      const d = a[rk + k]!;
-      if (d === 0) {
-        if (info === 0) info = k + 1;
-        continue;
-      }
-      const inv = 1 / d;
-      for (let i = k + 1; i < n; i++) {
-        const ri = i * n;
-        const l = a[ri + k]! * inv;
-        a[ri + k] = l;
-        if (l !== 0) for (let j = k + 1; j < ke; j++) a[ri + j] = a[ri + j]! - l * a[rk + j]!;
-      }
-    }
+    info = panel(a, n, k0, ke, piv, g, info);
     if (ke >= n) break;
     // U12 ← L11⁻¹ A12 (rows k0..ke−1, columns ke..n−1).
-    for (let i = k0 + 1; i < ke; i++) {
-      const ri = i * n;
-      for (let k = k0; k < i; k++) {
-        const l = a[ri + k]!;
-        if (l === 0) continue;
-        const rk = k * n;
-        for (let j = ke; j < n; j++) a[ri + j] = a[ri + j]! - l * a[rk + j]!;
+    lowerSolve(a, k0 * n + k0, n, a, k0 * n + ke, n, ke - k0, n - ke, g);
+    // A22 ← A22 − L21 U12.
+    g(n - ke, n - ke, ke - k0, a, ke * n + k0, n, a, k0 * n + ke, n, a, ke * n + ke, n);
+  }
+  return info;
+}
+
+/**
+ * Factor columns c0..c1−1 on rows c0..n−1 with partial pivoting and whole-row interchanges:
+ * recursion on halves (left half, its block row of U, the update of the right half through
+ * the kernel, right half), one column at a time below `BASE` columns.
+ */
+function panel(a: Float64Array, n: number, c0: number, c1: number, piv: Int32Array, g: Gemm, info: number): number {
+  const w = c1 - c0;
+  if (w > BASE) {
+    const cm = c0 + half(w);
+    info = panel(a, n, c0, cm, piv, g, info);
+    lowerSolve(a, c0 * n + c0, n, a, c0 * n + cm, n, cm - c0, c1 - cm, g);
+    g(n - cm, c1 - cm, cm - c0, a, cm * n + c0, n, a, c0 * n + cm, n, a, cm * n + cm, n);
+    return panel(a, n, cm, c1, piv, g, info);
+  }
+  for (let k = c0; k < c1; k++) {
+    let p = k;
+    let best = Math.abs(a[k * n + k]!);
+    for (let i = k + 1; i < n; i++) {
+      const v = Math.abs(a[i * n + k]!);
+      if (v > best) {
+        best = v;
+        p = i;
       }
     }
-    // A22 ← A22 − L21 U12.
-    gemmSub(n - ke, n - ke, ke - k0, a, ke * n + k0, n, a, k0 * n + ke, n, a, ke * n + ke, n);
+    piv[k] = p;
+    const rk = k * n;
+    if (p !== k) {
+      const rp = p * n;
+      for (let j = 0; j < n; j++) {
+        const t = a[rk + j]!;
+        a[rk + j] = a[rp + j]!;
+        a[rp + j] = t;
+      }
+    }
+    const d = a[rk + k]!;
+    if (d === 0) {
+      if (info === 0) info = k + 1;
+      continue;
+    }
+    const inv = 1 / d;
+    for (let i = k + 1; i < n; i++) {
+      const ri = i * n;
+      const l = a[ri + k]! * inv;
+      a[ri + k] = l;
+      if (l !== 0) for (let j = k + 1; j < c1; j++) a[ri + j] = a[ri + j]! - l * a[rk + j]!;
+    }
   }
   return info;
 }
