@@ -1,6 +1,8 @@
 import { defineConfig } from 'vitest/config';
+import { svelte } from '@sveltejs/vite-plugin-svelte';
 
 export default defineConfig({
+  plugins: [svelte({ configFile: false, compilerOptions: { hmr: false } })],
   test: {
     include: ['test/**/*.test.ts'],
     exclude: ['test/bench/**', 'node_modules/**'],

@@ -5,7 +5,7 @@
  */
 import { scaleLinear } from 'd3';
 import type { Chart } from './svg';
-import { clip, el, escapeXml, svgRoot, text } from './svg';
+import { clip, el, escapeXml, labelWidth, svgRoot, text } from './svg';
 import type { Formatter } from './format';
 import { numberFormat } from './format';
 import { AXIS, GRID, INK, SERIES_COLOURS } from './palette';
@@ -38,7 +38,7 @@ export function groupedBars(input: GroupedBarsInput): Chart {
   let order = categories.map((_, i) => i);
   if (!input.keepOrder) order.sort((a, b) => (first[b] ?? 0) - (first[a] ?? 0));
   order = order.slice(0, limit);
-  const labelW = 200;
+  const labelW = labelWidth(order.map((i) => categories[i]!), 30);
   const right = 60;
   const top = 46;
   const barH = 12;

@@ -5,7 +5,7 @@
  */
 import { scaleLinear } from 'd3';
 import type { Chart } from './svg';
-import { clip, el, escapeXml, svgRoot, text } from './svg';
+import { clip, el, escapeXml, labelWidth, svgRoot, text } from './svg';
 import type { Formatter } from './format';
 import { numberFormat } from './format';
 import { AXIS, GRID, INK, SERIES_COLOURS } from './palette';
@@ -39,7 +39,7 @@ export function stackedBars(input: StackedBarsInput): Chart {
     .map((_, i) => i)
     .sort((a, b) => Math.abs(totals[b]!) - Math.abs(totals[a]!))
     .slice(0, limit);
-  const labelW = 200;
+  const labelW = labelWidth(order.map((i) => categories[i]!), 30);
   const right = 70;
   const top = 46;
   const barH = 18;

@@ -74,3 +74,10 @@ function hash(s: string): string {
 export function clip(label: string, max: number): string {
   return label.length <= max ? label : `${label.slice(0, Math.max(1, max - 1))}…`;
 }
+
+/** Room for the longest label (clipped to `max` characters) at the default font size. */
+export function labelWidth(labels: readonly string[], max: number): number {
+  let longest = 0;
+  for (const l of labels) longest = Math.max(longest, Math.min(max, l.length));
+  return Math.round(Math.min(12 + 6.6 * max, Math.max(60, 14 + 6.6 * longest)));
+}

@@ -5,7 +5,7 @@
  */
 import { scaleLinear } from 'd3';
 import type { Chart } from './svg';
-import { clip, el, escapeXml, svgRoot, text } from './svg';
+import { clip, el, escapeXml, labelWidth, svgRoot, text } from './svg';
 import type { Formatter } from './format';
 import { numberFormat } from './format';
 import { AXIS, GRID, INK, SERIES_COLOURS } from './palette';
@@ -32,7 +32,7 @@ export function tornado(input: TornadoInput): Chart {
   const fmt = input.format ?? numberFormat();
   const width = input.width ?? 720;
   const items = [...input.items].sort((a, b) => Math.abs(b.high - b.low) - Math.abs(a.high - a.low));
-  const labelW = 240;
+  const labelW = labelWidth(items.map((it) => it.label), 36);
   const right = 70;
   const top = 46;
   const barH = 18;
