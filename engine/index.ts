@@ -16,3 +16,53 @@ export { LeontiefModel } from './leontief';
 export type { Solution } from './leontief';
 export { supplyUse, REQUIREMENTS_KINDS } from './supply-use';
 export type { SupplyUseInput, SupplyUseModel, RequirementsKind, Technology } from './supply-use';
+// Analyses: measures, household closure, multipliers, scenarios, impacts, comparison,
+// linkages, Ghosh, price, extraction, mixed model, footprints.
+export {
+  CAUTIONS,
+  MEASURE_ABOUT,
+  measureInfo,
+  outputMeasure,
+  valueAddedMeasure,
+  labourIncomeMeasure,
+  satelliteMeasure,
+  jobsMeasure,
+  guessJobs,
+  measures,
+  findMeasure,
+  checkMeasure,
+  valueAddedIndex,
+  finalDemandIndex,
+  satelliteIndex,
+} from './measures';
+export type { Measure, MeasureInfo, MeasureKind, MeasureOptions } from './measures';
+export {
+  HOUSEHOLD_ABOUT,
+  householdClosure,
+  ClosedModel,
+  guessHousehold,
+  guessHouseholdColumn,
+  guessLabourIncomeRow,
+  buildModels,
+} from './household';
+export type { HouseholdOptions, HouseholdClosure, Models } from './household';
+export { MULTIPLIERS_ABOUT, REQUIREMENTS_MULTIPLIERS_ABOUT, multipliers, multipliersOf, requirementsMultipliers } from './multipliers';
+export type { Multipliers, RequirementsMultipliers } from './multipliers';
+export { SCENARIO_ABOUT, checkScenario, resolveScenario } from './scenario';
+export type { Scenario, DemandChange, ResolvedScenario, ResolvedChange } from './scenario';
+export { IMPACT_ABOUT, impact, impacts } from './impact';
+export type { Impact, MeasureImpact } from './impact';
+export { COMPARE_ABOUT, compare, compareScenarios } from './compare';
+export type { Comparison, MeasureComparison, PartTotals } from './compare';
+export { LINKAGES_ABOUT, KEY_SECTOR_GROUPS, linkages } from './linkages';
+export type { Linkages, KeySectorGroup } from './linkages';
+export { GHOSH_ABOUT, GHOSH_CAUTION, GhoshModel, allocationCoefficients, primaryInputs, ghoshImpact } from './ghosh';
+export type { GhoshImpact, PrimaryInputChange } from './ghosh';
+export { PRICE_ABOUT, priceModel } from './price';
+export type { PriceShock, PriceResult, ValueAddedChange, ImportPriceChange } from './price';
+export { EXTRACTION_ABOUT, EXTRACTION_RANKING_ABOUT, extraction, extractEach } from './extraction';
+export type { Extraction, ExtractionPart, ExtractionKind, ExtractionRanking } from './extraction';
+export { MIXED_ABOUT, mixedModel } from './mixed';
+export type { FixedOutput, MixedResult } from './mixed';
+export { FOOTPRINT_ABOUT, FOOTPRINT_CAUTION, footprint, footprints } from './footprint';
+export type { Footprint } from './footprint';
