@@ -66,3 +66,53 @@ export { MIXED_ABOUT, mixedModel } from './mixed';
 export type { FixedOutput, MixedResult } from './mixed';
 export { FOOTPRINT_ABOUT, FOOTPRINT_CAUTION, footprint, footprints } from './footprint';
 export type { Footprint } from './footprint';
+export { Random, drawStream } from './random';
+export {
+  SENSITIVITY_ABOUT,
+  SENSITIVITY_CAUTIONS,
+  checkCell,
+  checkIndex,
+  exactChange,
+  influentialCoefficients,
+  inverseEntries,
+  leontiefDerivative,
+  limitFor,
+  resolveTarget,
+  sensitivity,
+  tolerableLimits,
+} from './sensitivity';
+export type { Cell, Influence, LimitChange, Ranking, ResolvedTarget, ResultTarget, Sensitivity, TolerableLimit } from './sensitivity';
+export { WHATIF_ABOUT, WhatIf } from './whatif';
+export type { WhatIfOptions } from './whatif';
+export { tornado } from './tornado';
+export type { TornadoBar, TornadoData, TornadoEnd } from './tornado';
+export { distributionBins } from './bins';
+export type { Bin } from './bins';
+export {
+  UNCERTAINTY_ABOUT,
+  UNCERTAINTY_CAUTIONS,
+  drawCoefficients,
+  mergeDrawBlocks,
+  monteCarlo,
+  percentileSorted,
+  prepareMonteCarlo,
+  quantityIndex,
+  runDraws,
+  sampleColumn,
+} from './uncertainty';
+export type {
+  CancelSignal,
+  CoefficientCv,
+  DrawBlock,
+  MonteCarloMeasure,
+  MonteCarloResult,
+  MonteCarloScenario,
+  MonteCarloSpec,
+  PreparedMonteCarlo,
+  ProductivityRule,
+  QuantityRef,
+  RejectReason,
+  RejectedDraw,
+  RunOptions,
+  Summary,
+} from './uncertainty';
