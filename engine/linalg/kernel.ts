@@ -45,6 +45,19 @@ export interface DenseKernel {
   adopt?(data: Float64Array): Workspace;
 }
 
+const owners = new WeakMap<Float64Array, { ws: Workspace; kernel: DenseKernel }>();
+
+/** Remember that `ws.f64` belongs to `kernel` (so that an LU can factor it in place). */
+export function registerWorkspace(kernel: DenseKernel, ws: Workspace): Workspace {
+  owners.set(ws.f64, { ws, kernel });
+  return ws;
+}
+
+/** The workspace that owns this array, if a kernel made it. */
+export function workspaceOf(f64: Float64Array): { ws: Workspace; kernel: DenseKernel } | undefined {
+  return owners.get(f64);
+}
+
 /** Below this order the automatic choice keeps to JavaScript (copying in costs more than it saves). */
 export const WASM_MIN_N = 96;
 
@@ -185,14 +198,14 @@ function wasmWorkspace(length: number): Workspace {
   const memory = new w.Memory({ initial: Math.ceil((total * 8) / PAGE) });
   const ex = new w.Instance(mod, { env: { memory } }).exports as unknown as KernelExports;
   const f64 = new Float64Array(memory.buffer as ArrayBuffer, 0, length);
-  return {
+  return registerWorkspace(wasmSingleton, {
     f64,
     shared: false,
     gemmSub: (m, n, k, aOff, lda, bOff, ldb, cOff, ldc) => {
       if (m > 0 && n > 0 && k > 0) ex.gemmSub(m, n, k, aOff, lda, bOff, ldb, cOff, ldc, pack);
     },
     release: () => undefined,
-  };
+  });
 }
 
 /** The WebAssembly SIMD kernel, or null where the runtime lacks SIMD. */

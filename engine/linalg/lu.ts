@@ -15,7 +15,7 @@
 import { InputError, SingularMatrixError } from '../errors';
 import { gemmSub } from './gemm';
 import type { DenseKernel, Workspace } from './kernel';
-import { WASM_MIN_N, kernelFor } from './kernel';
+import { WASM_MIN_N, kernelFor, workspaceOf } from './kernel';
 import type { Matrix } from './matrix';
 import { norm1 } from './matrix';
 
@@ -83,6 +83,13 @@ export class LU {
       this.lu = options.overwrite ? a.data : a.data.slice();
       this.singularColumn = factor(this.lu, n, this.pivots, nb, gemmOn(kernel.adopt(this.lu)));
     } else {
+      const own = options.overwrite ? workspaceOf(a.data) : undefined;
+      if (own && own.kernel === kernel && !own.ws.shared && a.data.length === n * n) {
+        // The matrix already lives in this kernel's memory: factor it there.
+        this.lu = a.data;
+        this.singularColumn = factor(a.data, n, this.pivots, nb, gemmOn(own.ws));
+        return;
+      }
       // Copy into the kernel's memory, factor there, and keep (or copy back) the result.
       const ws = kernel.workspace(n * n);
       ws.f64.set(a.data);
