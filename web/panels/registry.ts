@@ -1,0 +1,15 @@
+/**
+ * Which panel shows each step. Panels are registered here so that areas of the workbench can be
+ * added independently; App.svelte shows the steps that have a panel.
+ */
+import type { Component } from 'svelte';
+import type { Step } from '../lib/state.svelte';
+import OpenPanel from './OpenPanel.svelte';
+import ChecksPanel from './ChecksPanel.svelte';
+import MultipliersPanel from './MultipliersPanel.svelte';
+
+export const panels: Partial<Record<Step, Component>> = {
+  open: OpenPanel,
+  checks: ChecksPanel,
+  multipliers: MultipliersPanel,
+};

@@ -1,0 +1,30 @@
+/** Operations on the current table itself. */
+import { coefficients } from '../../../engine/index';
+import type { PlainTable } from '../../../engine/index';
+import type { Handler } from '../context';
+import { current, openModel, setTable } from './session';
+
+export const tableOps: Record<string, Handler> = {
+  /** Make a plain table the current one; returns its findings. */
+  'set-table': (args: { table: PlainTable }, ctx) => {
+    ctx.progress(0, 'checking the table');
+    const s = setTable(args.table);
+    ctx.progress(1);
+    return { findings: s.findings, n: s.table.sectors.codes.length };
+  },
+
+  /** Output multipliers (column sums of L) by one transposed solve. */
+  'output-multipliers': () => {
+    const s = current();
+    const om = openModel().outputMultipliers();
+    return { codes: s.table.sectors.codes, values: Array.from(om) };
+  },
+
+  /** The technical coefficients A, for the heat map (the buffer is transferred, not copied). */
+  coefficients: (_args, ctx) => {
+    const s = current();
+    const A = coefficients(s.table);
+    ctx.transfer(A.data.buffer as ArrayBuffer);
+    return { rows: A.rows, cols: A.cols, data: A.data };
+  },
+};
