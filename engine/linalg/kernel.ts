@@ -136,6 +136,7 @@ export function decodeBase64(s: string): Uint8Array {
   return out;
 }
 
+let api: WasmApi | undefined;
 let privateModule: object | null | undefined;
 let sharedModule: object | null | undefined;
 let packDoubles = 0;
@@ -157,7 +158,8 @@ function loadPrivate(): object | null {
   if (privateModule === undefined) {
     privateModule = compile(KERNELS_WASM_PRIVATE);
     if (privateModule) {
-      const probe = new (wasmApi()!).Instance(privateModule, { env: { memory: new (wasmApi()!).Memory({ initial: 1 }) } });
+      api = wasmApi()!;
+      const probe = new api.Instance(privateModule, { env: { memory: new api.Memory({ initial: 1 }) } });
       packDoubles = (probe.exports as unknown as KernelExports).packLength();
     }
   }
@@ -187,7 +189,7 @@ export function align8(k: number): number {
 }
 
 function wasmWorkspace(length: number): Workspace {
-  const w = wasmApi()!;
+  const w = api!;
   const mod = loadPrivate()!;
   const pack = align8(length);
   const total = pack + packDoubles;
