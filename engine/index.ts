@@ -116,3 +116,15 @@ export type {
   RunOptions,
   Summary,
 } from './uncertainty';
+// Large tables and fast kernels.
+export { gemmSub, KC as GEMM_KC } from './linalg/gemm';
+export { setKernel, kernelFor, kernelInfo, wasmKernel, wasmSimdAvailable, jsKernel, WASM_MIN_N } from './linalg/kernel';
+export type { DenseKernel, Workspace, KernelChoice, KernelInfo } from './linalg/kernel';
+export { toCSR, csrToDense, fromTriplets, csrMatVec, csrVecMat, csrTranspose, csrColSums, csrRowSums, nnz, density, SPARSE_BELOW } from './linalg/sparse';
+export type { CSR } from './linalg/sparse';
+export { powerSeries, gmres, denseOperator, csrOperator, scaledFlowsOperator, transposed, leontiefResidualOf, ConvergenceError } from './linalg/iterative';
+export type { LinearOperator, IterativeOptions, IterativeResult, IterativeMethod } from './linalg/iterative';
+export { LargeLeontief, largeOutputMultipliers, largeImpact, LARGE_ABOUT } from './large';
+export type { LargeOptions, LargeSolution, LargeMethod } from './large';
+export { syntheticTable, syntheticCoefficients } from './synthetic';
+export type { SyntheticOptions } from './synthetic';
