@@ -44,7 +44,7 @@ export function checks(t: Table, options: CheckOptions = {}): Finding[] {
   const S = t.sectors;
 
   // Non-finite values, block by block.
-  const blocks: { block: CellAt['block']; m: Matrix; rowName: (i: number) => string; colName: (j: number) => string; what: string; name?: string }[] = [
+  const blocks: BlockView[] = [
     { block: 'Z', m: t.Z, rowName: (i) => S.labels[i]!, colName: (j) => S.labels[j]!, what: 'intermediate flows' },
     { block: 'F', m: t.F, rowName: (i) => S.labels[i]!, colName: (j) => t.finalDemand.labels[j]!, what: 'final demand' },
     { block: 'V', m: t.V, rowName: (i) => t.valueAdded.labels[i]!, colName: (j) => S.labels[j]!, what: 'value added' },
@@ -58,56 +58,24 @@ export function checks(t: Table, options: CheckOptions = {}): Finding[] {
   }
   let finite = true;
   for (const b of blocks) {
-    const cells: CellAt[] = [];
-    const texts: string[] = [];
-    let count = 0;
-    for (let i = 0; i < b.m.rows; i++) {
-      for (let j = 0; j < b.m.cols; j++) {
-        const v = b.m.data[i * b.m.cols + j]!;
-        if (Number.isFinite(v)) continue;
-        count++;
-        if (cells.length < limit) {
-          const c: CellAt = { block: b.block, row: i, col: j };
-          if (b.name) c.name = b.name;
-          cells.push(c);
-          texts.push(`row '${b.rowName(i)}', column '${b.colName(j)}': ${v}`);
-        }
-      }
-    }
-    if (count) {
-      finite = false;
-      const first = cells[0]!;
-      out.push({
-        code: 'non-finite',
-        severity: 'error',
-        message: `${b.what}: ${count} value${count > 1 ? 's are' : ' is'} not a finite number (${texts.join('; ')}${count > texts.length ? '; …' : ''})`,
-        where: { rowLabel: b.rowName(first.row), columnLabel: b.colName(first.col) },
-        cells,
-        data: { count },
-      });
-    }
+    const bad = scan(b, (v) => !Number.isFinite(v), limit, (i, j, v) => `row '${b.rowName(i)}', column '${b.colName(j)}': ${v}`);
+    if (!bad) continue;
+    finite = false;
+    out.push({
+      code: 'non-finite',
+      severity: 'error',
+      message: `${b.what}: ${bad.count} value${bad.count > 1 ? 's are' : ' is'} not a finite number (${bad.list})`,
+      where: bad.where,
+      cells: bad.cells,
+      data: { count: bad.count },
+    });
   }
 
   // Negative values.
   for (const b of blocks) {
     if (b.block === 'x') continue;
-    const cells: CellAt[] = [];
-    const texts: string[] = [];
-    let count = 0;
-    for (let i = 0; i < b.m.rows; i++) {
-      for (let j = 0; j < b.m.cols; j++) {
-        const v = b.m.data[i * b.m.cols + j]!;
-        if (!(v < 0)) continue;
-        count++;
-        if (cells.length < limit) {
-          const c: CellAt = { block: b.block, row: i, col: j };
-          if (b.name) c.name = b.name;
-          cells.push(c);
-          texts.push(`'${b.rowName(i)}' → '${b.colName(j)}' ${v}`);
-        }
-      }
-    }
-    if (!count) continue;
+    const neg = scan(b, (v) => v < 0, limit, (i, j, v) => `'${b.rowName(i)}' → '${b.colName(j)}' ${v}`);
+    if (!neg) continue;
     const legal =
       b.block === 'Z'
         ? 'negative intermediate flows are unusual; check the source'
@@ -115,10 +83,10 @@ export function checks(t: Table, options: CheckOptions = {}): Finding[] {
     out.push({
       code: 'negative-flow',
       severity: b.block === 'Z' ? 'warning' : 'note',
-      message: `${b.what}: ${count} negative value${count > 1 ? 's' : ''} (${texts.join('; ')}${count > texts.length ? '; …' : ''}); ${legal}`,
-      where: { rowLabel: b.rowName(cells[0]!.row), columnLabel: b.colName(cells[0]!.col) },
-      cells,
-      data: { count },
+      message: `${b.what}: ${neg.count} negative value${neg.count > 1 ? 's' : ''} (${neg.list}); ${legal}`,
+      where: neg.where,
+      cells: neg.cells,
+      data: { count: neg.count },
     });
   }
 
@@ -265,6 +233,44 @@ export function checks(t: Table, options: CheckOptions = {}): Finding[] {
     }
   }
   return out;
+}
+
+/** One block of the table as the scans see it: its matrix and how to name its rows and columns. */
+interface BlockView {
+  block: CellAt['block'];
+  m: Matrix;
+  rowName: (i: number) => string;
+  colName: (j: number) => string;
+  what: string;
+  name?: string;
+}
+
+/** The cells of a block whose value fails `bad`: a count, the first `limit` cells and their descriptions. */
+function scan(b: BlockView, bad: (v: number) => boolean, limit: number, describe: (i: number, j: number, v: number) => string) {
+  const cells: CellAt[] = [];
+  const texts: string[] = [];
+  let count = 0;
+  for (let i = 0; i < b.m.rows; i++) {
+    for (let j = 0; j < b.m.cols; j++) {
+      const v = b.m.data[i * b.m.cols + j]!;
+      if (!bad(v)) continue;
+      count++;
+      if (cells.length < limit) {
+        const c: CellAt = { block: b.block, row: i, col: j };
+        if (b.name) c.name = b.name;
+        cells.push(c);
+        texts.push(describe(i, j, v));
+      }
+    }
+  }
+  if (!count) return undefined;
+  const first = cells[0]!;
+  return {
+    count,
+    cells,
+    list: `${texts.join('; ')}${count > texts.length ? '; …' : ''}`,
+    where: { rowLabel: b.rowName(first.row), columnLabel: b.colName(first.col) },
+  };
 }
 
 interface Gap {

@@ -8,7 +8,8 @@ import type { Chart } from './svg';
 import { clip, el, escapeXml, labelWidth, svgRoot, text } from './svg';
 import type { Formatter } from './format';
 import { numberFormat } from './format';
-import { AXIS, GRID, INK, SERIES_COLOURS } from './palette';
+import { AXIS, INK, SERIES_COLOURS } from './palette';
+import { legend, valueAxis } from './parts';
 
 export interface BarSeries {
   label: string;
@@ -58,18 +59,8 @@ export function groupedBars(input: GroupedBarsInput): Chart {
   if (lo === hi) hi = lo + 1;
   const x = scaleLinear().domain([lo, hi]).nice().range([labelW, width - right]);
   const parts: string[] = [];
-  let lx = labelW;
-  series.forEach((s, k) => {
-    const c = s.colour ?? SERIES_COLOURS[k % SERIES_COLOURS.length]!;
-    parts.push(el('rect', { x: lx, y: 8, width: 12, height: 12, fill: c }));
-    parts.push(text({ x: lx + 16, y: 18, fill: INK }, s.label));
-    lx += 24 + s.label.length * 7;
-  });
-  for (const t of x.ticks(6)) {
-    parts.push(el('line', { x1: x(t), x2: x(t), y1: top - 6, y2: height - 26, stroke: t === 0 ? AXIS : GRID }));
-    parts.push(text({ x: x(t), y: height - 12, 'text-anchor': 'middle', fill: AXIS, 'font-size': 11 }, fmt(t)));
-  }
-  parts.push(text({ x: width - right, y: 34, 'text-anchor': 'end', fill: AXIS, 'font-size': 11 }, unit));
+  parts.push(legend(series, labelW));
+  parts.push(valueAxis(x, top, height, unit, fmt));
   order.forEach((i, r) => {
     const y0 = top + r * groupH;
     parts.push(text({ x: labelW - 8, y: y0 + (series.length * barH) / 2 + 4, 'text-anchor': 'end', fill: INK }, clip(categories[i]!, 30)));

@@ -8,7 +8,8 @@ import type { Chart } from './svg';
 import { clip, el, escapeXml, labelWidth, svgRoot, text } from './svg';
 import type { Formatter } from './format';
 import { numberFormat } from './format';
-import { AXIS, GRID, INK, SERIES_COLOURS } from './palette';
+import { INK, SERIES_COLOURS } from './palette';
+import { legend, valueAxis } from './parts';
 
 export interface TornadoItem {
   label: string;
@@ -52,15 +53,8 @@ export function tornado(input: TornadoInput): Chart {
   const cLow = SERIES_COLOURS[0]!;
   const cHigh = SERIES_COLOURS[5]!;
   const parts: string[] = [];
-  parts.push(el('rect', { x: labelW, y: 8, width: 12, height: 12, fill: cLow }));
-  parts.push(text({ x: labelW + 16, y: 18, fill: INK }, input.lowLabel ?? 'Input at its low value'));
-  parts.push(el('rect', { x: labelW + 190, y: 8, width: 12, height: 12, fill: cHigh }));
-  parts.push(text({ x: labelW + 206, y: 18, fill: INK }, input.highLabel ?? 'Input at its high value'));
-  for (const t of x.ticks(6)) {
-    parts.push(el('line', { x1: x(t), x2: x(t), y1: top - 6, y2: height - 26, stroke: GRID }));
-    parts.push(text({ x: x(t), y: height - 12, 'text-anchor': 'middle', fill: AXIS, 'font-size': 11 }, fmt(t)));
-  }
-  parts.push(text({ x: width - right, y: 34, 'text-anchor': 'end', fill: AXIS, 'font-size': 11 }, input.unit));
+  parts.push(legend([{ label: input.lowLabel ?? 'Input at its low value', colour: cLow }, { label: input.highLabel ?? 'Input at its high value', colour: cHigh }], labelW));
+  parts.push(valueAxis(x, top, height, input.unit, fmt));
   items.forEach((it, r) => {
     const y = top + r * (barH + gap);
     parts.push(text({ x: labelW - 8, y: y + barH - 5, 'text-anchor': 'end', fill: INK }, clip(it.label, 36)));
