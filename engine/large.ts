@@ -206,7 +206,10 @@ export class LargeLeontief {
       const n = this.n;
       // I − A straight from Z and x, in the kernel's memory when it has one.
       const kernel = kernelFor(n);
-      const data = kernel.adopt ? new Float64Array(n * n) : kernel.workspace(n * n).f64;
+      // (A shared workspace is reused by the next call, so the factor cannot live there.)
+      const ws = kernel.adopt ? undefined : kernel.workspace(n * n);
+      const data = ws && !ws.shared ? ws.f64 : new Float64Array(n * n);
+      if (ws?.shared) ws.release();
       const z = this.Z.data;
       const inv = invert(this.x);
       for (let i = 0; i < n; i++) {

@@ -114,7 +114,7 @@ function wasmApi(): WasmApi | undefined {
 }
 
 /** Decode base64 without atob or Buffer (neither is in the engine's library). */
-export function decodeBase64(s: string): Uint8Array {
+export function decodeBase64(s: string): Uint8Array<ArrayBuffer> {
   const code = (c: number): number =>
     c >= 65 && c <= 90 ? c - 65 : c >= 97 && c <= 122 ? c - 71 : c >= 48 && c <= 57 ? c + 4 : c === 43 ? 62 : c === 47 ? 63 : -1;
   let len = s.length;
