@@ -47,25 +47,55 @@ export function denseOperator(a: Matrix): LinearOperator {
   return {
     n,
     storage: 'dense',
-    apply(v, out) {
-      for (let i = 0; i < n; i++) {
-        const o = i * n;
-        let s = 0;
-        for (let j = 0; j < n; j++) s += d[o + j]! * v[j]!;
-        out[i] = s;
-      }
-    },
-    applyTranspose(v, out) {
-      out.fill(0);
-      for (let i = 0; i < n; i++) {
-        const vi = v[i]!;
-        if (vi === 0) continue;
-        const o = i * n;
-        for (let j = 0; j < n; j++) out[j] = out[j]! + d[o + j]! * vi;
-      }
-    },
+    apply: (v, out) => denseTimes(d, n, v, out),
+    applyTranspose: (v, out) => denseTransposeTimes(d, n, v, out),
     norms: () => denseNorms(n, d, null),
   };
+}
+
+/** out ← M v for a row-major n × n M, two rows at a time (each v[j] loaded once per pair). */
+function denseTimes(d: Float64Array, n: number, v: Float64Array, out: Float64Array): void {
+  let i = 0;
+  for (; i + 1 < n; i += 2) {
+    const o0 = i * n;
+    const o1 = o0 + n;
+    let s0 = 0;
+    let s1 = 0;
+    for (let j = 0; j < n; j++) {
+      const vj = v[j]!;
+      s0 += d[o0 + j]! * vj;
+      s1 += d[o1 + j]! * vj;
+    }
+    out[i] = s0;
+    out[i + 1] = s1;
+  }
+  if (i < n) {
+    const o = i * n;
+    let s = 0;
+    for (let j = 0; j < n; j++) s += d[o + j]! * v[j]!;
+    out[i] = s;
+  }
+}
+
+/** out ← M′ v for a row-major n × n M, four rows at a time (out updated once per four rows). */
+function denseTransposeTimes(d: Float64Array, n: number, v: Float64Array, out: Float64Array): void {
+  out.fill(0);
+  let i = 0;
+  for (; i + 3 < n; i += 4) {
+    const v0 = v[i]!, v1 = v[i + 1]!, v2 = v[i + 2]!, v3 = v[i + 3]!;
+    if (v0 === 0 && v1 === 0 && v2 === 0 && v3 === 0) continue;
+    const o0 = i * n;
+    const o1 = o0 + n;
+    const o2 = o1 + n;
+    const o3 = o2 + n;
+    for (let j = 0; j < n; j++) out[j] = out[j]! + (d[o0 + j]! * v0 + d[o1 + j]! * v1 + d[o2 + j]! * v2 + d[o3 + j]! * v3);
+  }
+  for (; i < n; i++) {
+    const vi = v[i]!;
+    if (vi === 0) continue;
+    const o = i * n;
+    for (let j = 0; j < n; j++) out[j] = out[j]! + d[o + j]! * vi;
+  }
 }
 
 /**
@@ -84,21 +114,10 @@ export function scaledFlowsOperator(z: Matrix, x: ArrayLike<number>): LinearOper
     storage: 'scaled-flows',
     apply(v, out) {
       for (let j = 0; j < n; j++) tmp[j] = v[j]! * inv[j]!;
-      for (let i = 0; i < n; i++) {
-        const o = i * n;
-        let s = 0;
-        for (let j = 0; j < n; j++) s += d[o + j]! * tmp[j]!;
-        out[i] = s;
-      }
+      denseTimes(d, n, tmp, out);
     },
     applyTranspose(v, out) {
-      out.fill(0);
-      for (let i = 0; i < n; i++) {
-        const vi = v[i]!;
-        if (vi === 0) continue;
-        const o = i * n;
-        for (let j = 0; j < n; j++) out[j] = out[j]! + d[o + j]! * vi;
-      }
+      denseTransposeTimes(d, n, v, out);
       for (let j = 0; j < n; j++) out[j] = out[j]! * inv[j]!;
     },
     norms: () => denseNorms(n, d, inv),

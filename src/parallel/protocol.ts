@@ -131,7 +131,18 @@ export class ParallelKernel implements DenseKernel {
       helpers.push(h);
     }
     await Promise.all(helpers.map((h) => h.ready));
-    return new ParallelKernel(memory, control, helpers, module);
+    const kernel = new ParallelKernel(memory, control, helpers, module);
+    kernel.warmUp();
+    return kernel;
+  }
+
+  /** A few split calls, so that every thread's code is optimised before the first real job. */
+  private warmUp(): void {
+    const s = 192;
+    const ws = this.workspace(3 * s * s);
+    for (let i = 0; i < ws.f64.length; i++) ws.f64[i] = ((i * 7919) % 1000) / 1000 - 0.5;
+    for (let r = 0; r < 4; r++) ws.gemmSub(s, s, s, 0, s, s * s, s, 2 * s * s, s);
+    this.splitCalls = 0;
   }
 
   /**
