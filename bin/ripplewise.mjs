@@ -1,0 +1,10 @@
+#!/usr/bin/env node
+// The `ripplewise` command. It runs the TypeScript sources directly: tsx's ESM loader is
+// registered in this process (tsx is a runtime dependency, so this works after `npm ci`), then
+// src/cli/main.ts parses the arguments and sets the exit code (0 success, 1 the table failed its
+// checks, 2 a usage or input error).
+import { register } from 'tsx/esm/api';
+
+register();
+const { main } = await import('../src/cli/main.ts');
+process.exitCode = await main(process.argv.slice(2));
