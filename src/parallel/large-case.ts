@@ -1,7 +1,7 @@
 /**
  * One large-table case, timed: make a seeded synthetic multi-regional table, then output
  * multipliers (i′L) and one scenario's output (L d) through `LargeLeontief`. The same function
- * runs in Node (test/bench/large.bench.ts) and in a browser worker (large-worker.ts), so that
+ * runs in Node (test/bench/large.bench.ts) and in a browser worker (large-web-worker.ts), so that
  * both measure the same path. No Node API.
  */
 import { LargeLeontief } from '../../engine/large';

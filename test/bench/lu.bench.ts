@@ -13,7 +13,7 @@ import { LU } from '../../engine/linalg/lu';
 import { jsKernel, wasmKernel } from '../../engine/linalg/kernel';
 import type { DenseKernel } from '../../engine/linalg/kernel';
 import { toRows } from '../../engine/linalg/matrix';
-import { startNodeKernel } from '../../src/parallel/node';
+import { startNodeKernel } from '../../src/parallel/kernel-node';
 import { randomMatrix } from '../helpers/random';
 import { table, target, timeMedian } from './util';
 

@@ -9,8 +9,8 @@ import { LU } from '../../../engine/linalg/lu';
 import { jsKernel, setKernel, wasmKernel } from '../../../engine/linalg/kernel';
 import { LargeLeontief } from '../../../engine/large';
 import { syntheticTable } from '../../../engine/synthetic';
-import type { ParallelKernel } from '../../../src/parallel/protocol';
-import { startNodeKernel } from '../../../src/parallel/node';
+import type { ParallelKernel } from '../../../src/parallel/kernel-protocol';
+import { startNodeKernel } from '../../../src/parallel/kernel-node';
 import { randomMatrix } from '../../helpers/random';
 
 let kernel: ParallelKernel;

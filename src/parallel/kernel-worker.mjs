@@ -1,5 +1,5 @@
 // A helper thread of the parallel kernel in Node (worker_threads). Plain JavaScript so that it
-// starts under any loader; the protocol and its layout are those of protocol.ts (the layout
+// starts under any loader; the protocol and its layout are those of kernel-protocol.ts (the layout
 // arrives with the init message, so the numbers have one source).
 import { parentPort } from 'node:worker_threads';
 

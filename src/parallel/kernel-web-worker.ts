@@ -1,11 +1,11 @@
 /**
  * A helper thread of the parallel kernel in the browser (a module Web Worker). Same protocol as
- * the Node helper (see protocol.ts): on `init` it instantiates the shared-memory kernels, posts
+ * the Node helper (see kernel-protocol.ts): on `init` it instantiates the shared-memory kernels, posts
  * `ready`, then serves jobs from its slot of the control block until OP_STOP.
  */
 import type { KernelExports } from '../../engine/linalg/kernel';
-import type { InitMessage } from './protocol';
-import { serveKernel } from './protocol';
+import type { InitMessage } from './kernel-protocol';
+import { serveKernel } from './kernel-protocol';
 
 const scope = self as unknown as { onmessage: ((e: MessageEvent<InitMessage>) => void) | null; postMessage(m: unknown): void };
 

@@ -1,6 +1,6 @@
 /**
  * The parallel kernel in the browser: helper threads are module Web Workers running
- * browser-worker.ts. Shared memory needs a cross-origin isolated page (served with
+ * kernel-web-worker.ts. Shared memory needs a cross-origin isolated page (served with
  * `Cross-Origin-Opener-Policy: same-origin` and `Cross-Origin-Embedder-Policy: require-corp`);
  * and the caller must itself be a worker, because the kernel waits with `Atomics.wait`, which
  * the page's main thread may not do. Where either is missing, `startBrowserKernel` rejects and
@@ -10,8 +10,8 @@
  * const kernel = await startBrowserKernel({ threads: navigator.hardwareConcurrency });
  * setKernel(kernel);
  */
-import type { Helper, InitMessage, ParallelOptions } from './protocol';
-import { ParallelKernel } from './protocol';
+import type { Helper, InitMessage, ParallelOptions } from './kernel-protocol';
+import { ParallelKernel } from './kernel-protocol';
 
 export function startBrowserKernel(options: ParallelOptions & { workerUrl?: URL } = {}): Promise<ParallelKernel> {
   const g = globalThis as unknown as { crossOriginIsolated?: boolean; navigator?: { hardwareConcurrency?: number } };
@@ -19,7 +19,7 @@ export function startBrowserKernel(options: ParallelOptions & { workerUrl?: URL 
     return Promise.reject(new Error('the page is not cross-origin isolated, so threads cannot share memory'));
   }
   const threads = options.threads ?? Math.max(1, g.navigator?.hardwareConcurrency ?? 1);
-  const url = options.workerUrl ?? new URL('./browser-worker.ts', import.meta.url);
+  const url = options.workerUrl ?? new URL('./kernel-web-worker.ts', import.meta.url);
   const spawn = (): Helper => {
     const w = new Worker(url, { type: 'module' });
     const ready = new Promise<void>((res, rej) => {

@@ -4,7 +4,7 @@
  * answers).
  *
  * @example (in a page or a test driving Chromium)
- * const w = new Worker(new URL('../src/parallel/large-worker.ts', import.meta.url), { type: 'module' });
+ * const w = new Worker(new URL('../src/parallel/large-web-worker.ts', import.meta.url), { type: 'module' });
  * w.postMessage({ type: 'large-case', regions: 10, sectors: 500, density: 0.12 });
  * w.onmessage = (e) => console.log(e.data.totalMs, e.data.multipliers.method);
  */

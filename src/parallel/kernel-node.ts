@@ -1,5 +1,5 @@
 /**
- * The parallel kernel in Node: helper threads are worker_threads running worker.mjs.
+ * The parallel kernel in Node: helper threads are worker_threads running kernel-worker.mjs.
  *
  * @example
  * const kernel = await startNodeKernel({ threads: 2 });
@@ -8,13 +8,13 @@
  */
 import { availableParallelism } from 'node:os';
 import { Worker } from 'node:worker_threads';
-import type { Helper, InitMessage, ParallelOptions } from './protocol';
-import { ARGS, DONE, ERROR, OP, OP_GEMM, OP_STOP, ParallelKernel, SEQ, SLOT } from './protocol';
+import type { Helper, InitMessage, ParallelOptions } from './kernel-protocol';
+import { ARGS, DONE, ERROR, OP, OP_GEMM, OP_STOP, ParallelKernel, SEQ, SLOT } from './kernel-protocol';
 
 export const LAYOUT = { SLOT, SEQ, DONE, OP, ERROR, ARGS, OP_GEMM, OP_STOP };
 
 function spawn(): Helper {
-  const w = new Worker(new URL('./worker.mjs', import.meta.url));
+  const w = new Worker(new URL('./kernel-worker.mjs', import.meta.url));
   w.unref();
   let ready!: () => void;
   let failed!: (e: Error) => void;

@@ -7,7 +7,7 @@
  *
  * This file holds what Node and the browser share: the layout of the control block, the loop a
  * helper thread runs (`serveKernel`), and the kernel itself (`ParallelKernel`). It uses no Node
- * API; `node.ts` and `browser.ts` only spawn the helpers.
+ * API; `kernel-node.ts` and `kernel-web.ts` only spawn the helpers.
  *
  * Protocol (one slot of `SLOT` Int32 per helper in a SharedArrayBuffer `control`):
  * 1. The caller posts `{ type: 'init', module, memory, control, slot }` (a compiled
