@@ -108,14 +108,19 @@ export class LU {
    * Run `f` on L U and a copy of `x` (n × r) in one array through the kernel, and return the
    * new `x`. Few columns, or a kernel that computes on any array, go straight to JavaScript.
    */
-  private withKernel(x: Float64Array, r: number, f: (lu: Float64Array, lo: number, x: Float64Array, xo: number, g: Gemm) => void): Float64Array {
+  private withKernel(
+    x: Float64Array,
+    r: number,
+    f: (lu: Float64Array, lo: number, x: Float64Array, xo: number, g: Gemm) => void,
+    factor: Float64Array = this.lu,
+  ): Float64Array {
     const { n, kernel } = this;
     if (kernel.adopt || r < MANY_MIN || n < WASM_MIN_N) {
-      f(this.lu, 0, x, 0, gemmSub);
+      f(factor, 0, x, 0, gemmSub);
       return x;
     }
     const ws = kernel.workspace(n * n + n * r);
-    ws.f64.set(this.lu, 0);
+    ws.f64.set(factor, 0);
     ws.f64.set(x, n * n);
     f(ws.f64, 0, ws.f64, n * n, gemmOn(ws));
     x.set(ws.f64.subarray(n * n, n * n + n * r));
@@ -223,20 +228,48 @@ export class LU {
     return { rows: n, cols: r, data: x };
   }
 
-  /** Y with A′ Y = C for many right-hand sides (C is `n × r`). */
+  /**
+   * Y with A′ Y = C for many right-hand sides (C is `n × r`). A′ = U′ L′ P, so U′ Z = C, then
+   * L′ W = Z, then Y = P′ W; for many columns on the transposed factor, blocked like `solveMany`.
+   */
   solveTransposeMany(c: Matrix): Matrix {
     this.ensureRegular();
     const { n } = this;
     if (c.rows !== n) throw new InputError('bad-size', `the right-hand sides have ${c.rows} rows; the matrix has ${n}`);
     const r = c.cols;
-    const out = new Float64Array(n * r);
-    const col = new Float64Array(n);
-    for (let j = 0; j < r; j++) {
-      for (let i = 0; i < n; i++) col[i] = c.data[i * r + j]!;
-      const y = this.solveTranspose(col);
-      for (let i = 0; i < n; i++) out[i * r + j] = y[i]!;
+    if (r < MANY_MIN) {
+      const out = new Float64Array(n * r);
+      const col = new Float64Array(n);
+      for (let j = 0; j < r; j++) {
+        for (let i = 0; i < n; i++) col[i] = c.data[i * r + j]!;
+        const y = this.solveTranspose(col);
+        for (let i = 0; i < n; i++) out[i * r + j] = y[i]!;
+      }
+      return { rows: n, cols: r, data: out };
     }
-    return { rows: n, cols: r, data: out };
+    const t = transposeSquare(this.lu, n);
+    const x = c.data.slice();
+    this.withKernel(
+      x,
+      r,
+      (f, fo, y, yo, g) => {
+        lowerSolve(f, fo, n, y, yo, r, n, r, g, false);
+        upperSolve(f, fo, n, y, yo, r, n, r, g, true);
+      },
+      t,
+    );
+    for (let k = n - 1; k >= 0; k--) {
+      const p = this.pivots[k]!;
+      if (p === k) continue;
+      const a = k * r;
+      const b = p * r;
+      for (let j = 0; j < r; j++) {
+        const tmp = x[a + j]!;
+        x[a + j] = x[b + j]!;
+        x[b + j] = tmp;
+      }
+    }
+    return { rows: n, cols: r, data: x };
   }
 
   /**
@@ -274,13 +307,14 @@ export class LU {
 }
 
 /**
- * X ← L⁻¹ X, L the m × m unit lower triangle at `lo` of `l` (leading dimension ldl), X the
- * m × r block at `xo` of `x` (leading dimension ldx). Recursion on halves: solve the top,
- * subtract L₂₁ X₁ from the bottom through the kernel, solve the bottom.
+ * X ← L⁻¹ X, L the m × m lower triangle at `lo` of `l` (leading dimension ldl; unit diagonal
+ * unless `unit` is false), X the m × r block at `xo` of `x` (leading dimension ldx). Recursion
+ * on halves: solve the top, subtract L₂₁ X₁ from the bottom through the kernel, solve the
+ * bottom.
  */
-function lowerSolve(l: Float64Array, lo: number, ldl: number, x: Float64Array, xo: number, ldx: number, m: number, r: number, g: Gemm): void {
+function lowerSolve(l: Float64Array, lo: number, ldl: number, x: Float64Array, xo: number, ldx: number, m: number, r: number, g: Gemm, unit = true): void {
   if (m <= BASE) {
-    for (let i = 1; i < m; i++) {
+    for (let i = 0; i < m; i++) {
       const xi = xo + i * ldx;
       const li = lo + i * ldl;
       for (let k = 0; k < i; k++) {
@@ -289,17 +323,21 @@ function lowerSolve(l: Float64Array, lo: number, ldl: number, x: Float64Array, x
         const xk = xo + k * ldx;
         for (let j = 0; j < r; j++) x[xi + j] = x[xi + j]! - v * x[xk + j]!;
       }
+      if (!unit) {
+        const d = 1 / l[li + i]!;
+        for (let j = 0; j < r; j++) x[xi + j] = x[xi + j]! * d;
+      }
     }
     return;
   }
   const m1 = half(m);
-  lowerSolve(l, lo, ldl, x, xo, ldx, m1, r, g);
+  lowerSolve(l, lo, ldl, x, xo, ldx, m1, r, g, unit);
   g(m - m1, r, m1, l, lo + m1 * ldl, ldl, x, xo, ldx, x, xo + m1 * ldx, ldx);
-  lowerSolve(l, lo + m1 * ldl + m1, ldl, x, xo + m1 * ldx, ldx, m - m1, r, g);
+  lowerSolve(l, lo + m1 * ldl + m1, ldl, x, xo + m1 * ldx, ldx, m - m1, r, g, unit);
 }
 
-/** X ← U⁻¹ X, U the m × m upper triangle (non-unit) at `lo` of `l`; as `lowerSolve`, bottom first. */
-function upperSolve(l: Float64Array, lo: number, ldl: number, x: Float64Array, xo: number, ldx: number, m: number, r: number, g: Gemm): void {
+/** X ← U⁻¹ X, U the m × m upper triangle at `lo` of `l` (non-unit unless `unit`); as `lowerSolve`, bottom first. */
+function upperSolve(l: Float64Array, lo: number, ldl: number, x: Float64Array, xo: number, ldx: number, m: number, r: number, g: Gemm, unit = false): void {
   if (m <= BASE) {
     for (let i = m - 1; i >= 0; i--) {
       const xi = xo + i * ldx;
@@ -310,15 +348,17 @@ function upperSolve(l: Float64Array, lo: number, ldl: number, x: Float64Array, x
         const xk = xo + k * ldx;
         for (let j = 0; j < r; j++) x[xi + j] = x[xi + j]! - u * x[xk + j]!;
       }
-      const d = 1 / l[li + i]!;
-      for (let j = 0; j < r; j++) x[xi + j] = x[xi + j]! * d;
+      if (!unit) {
+        const d = 1 / l[li + i]!;
+        for (let j = 0; j < r; j++) x[xi + j] = x[xi + j]! * d;
+      }
     }
     return;
   }
   const m1 = half(m);
-  upperSolve(l, lo + m1 * ldl + m1, ldl, x, xo + m1 * ldx, ldx, m - m1, r, g);
+  upperSolve(l, lo + m1 * ldl + m1, ldl, x, xo + m1 * ldx, ldx, m - m1, r, g, unit);
   g(m1, r, m - m1, l, lo + m1, ldl, x, xo + m1 * ldx, ldx, x, xo, ldx);
-  upperSolve(l, lo, ldl, x, xo, ldx, m1, r, g);
+  upperSolve(l, lo, ldl, x, xo, ldx, m1, r, g, unit);
 }
 
 /**
@@ -345,6 +385,20 @@ function lowerInverse(l: Float64Array, lo: number, ldl: number, y: Float64Array,
   lowerInverse(l, lo + m1 * ldl + m1, ldl, y, yo + m1 * ldy + m1, ldy, m - m1, g);
   g(m - m1, m1, m1, l, lo + m1 * ldl, ldl, y, yo, ldy, y, yo + m1 * ldy, ldy);
   lowerSolve(l, lo + m1 * ldl + m1, ldl, y, yo + m1 * ldy, ldy, m - m1, m1, g);
+}
+
+/** The transpose of a row-major n × n array, by tiles. */
+function transposeSquare(a: Float64Array, n: number): Float64Array {
+  const t = new Float64Array(n * n);
+  const B = 32;
+  for (let i0 = 0; i0 < n; i0 += B) {
+    const ie = Math.min(i0 + B, n);
+    for (let j0 = 0; j0 < n; j0 += B) {
+      const je = Math.min(j0 + B, n);
+      for (let i = i0; i < ie; i++) for (let j = j0; j < je; j++) t[j * n + i] = a[i * n + j]!;
+    }
+  }
+  return t;
 }
 
 /** The split of a recursion: about half, rounded to a multiple of 8 when that is possible. */
