@@ -197,7 +197,13 @@ function wasmWorkspace(length: number): Workspace {
     // Larger than a 32-bit memory: compute in JavaScript instead (same results).
     return jsKernel.workspace(length);
   }
-  const memory = new w.Memory({ initial: Math.ceil((total * 8) / PAGE) });
+  let memory: WasmMemoryLike;
+  try {
+    memory = new w.Memory({ initial: Math.ceil((total * 8) / PAGE) });
+  } catch {
+    // The runtime would not give that much memory at once: JavaScript (same results).
+    return jsKernel.workspace(length);
+  }
   const ex = new w.Instance(mod, { env: { memory } }).exports as unknown as KernelExports;
   const f64 = new Float64Array(memory.buffer as ArrayBuffer, 0, length);
   return registerWorkspace(wasmSingleton, {
