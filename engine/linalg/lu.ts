@@ -455,16 +455,23 @@ function panel(a: Float64Array, n: number, c0: number, c1: number, piv: Int32Arr
     g(n - cm, c1 - cm, cm - c0, a, cm * n + c0, n, a, c0 * n + cm, n, a, cm * n + cm, n);
     return panel(a, n, cm, c1, piv, g, info);
   }
+  // The pivot search of column k + 1 rides along the update of column k (same rows, same
+  // order, the first largest wins as in a separate scan); -1 when it has to be done apart.
+  let next = -1;
   for (let k = c0; k < c1; k++) {
-    let p = k;
-    let best = Math.abs(a[k * n + k]!);
-    for (let i = k + 1; i < n; i++) {
-      const v = Math.abs(a[i * n + k]!);
-      if (v > best) {
-        best = v;
-        p = i;
+    let p = next;
+    if (p < 0) {
+      p = k;
+      let best = Math.abs(a[k * n + k]!);
+      for (let i = k + 1; i < n; i++) {
+        const v = Math.abs(a[i * n + k]!);
+        if (v > best) {
+          best = v;
+          p = i;
+        }
       }
     }
+    next = -1;
     piv[k] = p;
     const rk = k * n;
     if (p !== k) {
@@ -481,11 +488,28 @@ function panel(a: Float64Array, n: number, c0: number, c1: number, piv: Int32Arr
       continue;
     }
     const inv = 1 / d;
-    for (let i = k + 1; i < n; i++) {
-      const ri = i * n;
-      const l = a[ri + k]! * inv;
-      a[ri + k] = l;
-      if (l !== 0) for (let j = k + 1; j < c1; j++) a[ri + j] = a[ri + j]! - l * a[rk + j]!;
+    const k1 = k + 1;
+    if (k1 < c1) {
+      let np = k1;
+      let best = -1;
+      for (let i = k1; i < n; i++) {
+        const ri = i * n;
+        const l = a[ri + k]! * inv;
+        a[ri + k] = l;
+        if (l !== 0) for (let j = k1; j < c1; j++) a[ri + j] = a[ri + j]! - l * a[rk + j]!;
+        const v = Math.abs(a[ri + k1]!);
+        if (i === k1) best = v;
+        else if (v > best) {
+          best = v;
+          np = i;
+        }
+      }
+      next = np;
+    } else {
+      for (let i = k1; i < n; i++) {
+        const ri = i * n;
+        a[ri + k] = a[ri + k]! * inv;
+      }
     }
   }
   return info;
