@@ -1,0 +1,1010 @@
+/**
+ * From a block (rows and columns with codes, and cells) to the engine's data: which rows and
+ * columns are sectors, final demand, value added, imports, totals, output or satellites; the
+ * totals checked against the data (never read as data); and the blocks read as matrices, with
+ * every empty or text cell in them reported by cell.
+ *
+ * Classification, in order: the mapping; the ignore patterns; labels that say output or total;
+ * a code that names both a row and a column (a sector, whatever pattern it matches); code
+ * patterns; label patterns; a unit column; then position (rows before the first non-sector row
+ * are sectors, rows after it value added, rows after the output row satellites; columns before
+ * the first non-sector column are sectors, after it final demand). In long files, where order
+ * means nothing, what is left is a sector.
+ *
+ * A total is checked against the sums it could be (the sector block, the final-demand or
+ * value-added block, everything, the run of lines since the previous total or up to the next);
+ * the sum it matches in most lines is reported, and lines that differ by more than the rounding
+ * of the data allows are findings naming the cell. A total that matches no sum is reported and
+ * left out; if its label also says what it is ('Total value added' alone, with no parts), it is
+ * read as that line instead. The sum of everything is the output line when no line is named so.
+ */
+import { InputError, type Where } from '../../engine/errors';
+import type { Finding } from '../../engine/findings';
+import type { Matrix } from '../../engine/linalg/matrix';
+import type { Axis, Satellite, Table, TableMeta } from '../../engine/table';
+import { validateTable } from '../../engine/table';
+import { type Block, DenseBlock, type Entry } from './block';
+import { TEXT } from './grid';
+import {
+  COLUMN_ROLES,
+  type ColumnRole,
+  type LayoutMapping,
+  type MappedColumn,
+  type MappedRow,
+  type MappingInput,
+  ROW_ROLES,
+  type RowRole,
+  roleOverrides,
+  type TableKind,
+  type TotalCheck,
+} from './mapping';
+import { numberHint } from './numbers';
+import { type CompiledPatterns, compilePatterns, type LayoutPatterns, resolvePatterns } from './patterns';
+
+export interface AssembleOptions {
+  kind: TableKind;
+  mapping?: MappingInput;
+  /** Empty cells in the blocks read: an error (default) or zero. */
+  blanks?: 'error' | 'zero';
+  /** Texts read as zero in the blocks, such as '-' or '..' (none by default). */
+  zeroTexts?: string[];
+  patterns?: MappingInput['patterns'];
+}
+
+export interface Classified {
+  rowRoles: RowRole[];
+  colRoles: ColumnRole[];
+  rowWhy: string[];
+  colWhy: string[];
+  units: (string | undefined)[];
+  totals: TotalCheck[];
+  findings: Finding[];
+}
+
+type RoleWhy<R> = { role: R | undefined; why: string; alt?: R };
+
+function stripTotal(label: string): string {
+  return label.replace(/^\s*(grand\s+|sub-?)?totals?\s*(of\s+)?[:\-–]?\s*/i, '').trim();
+}
+
+function overrideFor<R>(o: ReturnType<typeof roleOverrides<string>>, e: Entry): { role?: R; unit?: string; label?: string } | undefined {
+  return (o.byCode.get(e.code) ?? o.byIndex.get(e.at)) as { role?: R; unit?: string; label?: string } | undefined;
+}
+
+/** Classify the rows and columns of a block, then check the totals. */
+export function classify(block: Block, options: AssembleOptions): Classified {
+  const kind = options.kind;
+  const patterns: LayoutPatterns = resolvePatterns(options.patterns ?? options.mapping?.patterns);
+  const P: CompiledPatterns = compilePatterns(patterns);
+  const rowO = roleOverrides(options.mapping?.rows, ROW_ROLES, 'rows');
+  const colO = roleOverrides(options.mapping?.columns, COLUMN_ROLES, 'columns');
+  const rowCodes = new Set(block.rows.map((e) => e.code));
+  const colCodes = new Set(block.cols.map((e) => e.code));
+  const findings: Finding[] = [];
+  const wide = block.shape === 'wide';
+  const plain = kind === 'matrix' || kind === 'make';
+
+  // Unknown codes in the mapping are an error: a typo must not pass silently.
+  for (const [o, codes, axis] of [
+    [rowO, rowCodes, 'rows'],
+    [colO, colCodes, 'columns'],
+  ] as const) {
+    for (const code of o.byCode.keys()) {
+      if (!codes.has(code)) {
+        throw new InputError('mapping-unknown-code', `the mapping sets ${axis} '${code}', but the ${axis === 'rows' ? 'rows' : 'columns'} of file ${block.file} have no such code`, { file: block.file }, `Known codes start ${[...codes].slice(0, 8).map((c) => `'${c}'`).join(', ')}`);
+      }
+    }
+  }
+
+  const sheetRole = <R extends string>(e: Entry, roles: readonly R[], axis: string): R | undefined => {
+    if (e.role === undefined) return undefined;
+    if (!roles.includes(e.role as R)) {
+      throw new InputError('bad-role', `file ${block.file}: ${axis} '${e.code}' has role '${e.role}' written in the sheet, which is not one of ${roles.join(', ')}`, e.where ?? { file: block.file }, 'Fix the role, or leave the cell empty to let the reader decide');
+    }
+    return e.role as R;
+  };
+  const colRole = (e: Entry): RoleWhy<ColumnRole> => {
+    const o = overrideFor<ColumnRole>(colO, e);
+    if (o?.role) return { role: o.role, why: 'mapping' };
+    const sr = sheetRole(e, COLUMN_ROLES, 'column');
+    if (sr) return { role: sr, why: 'role written in the sheet' };
+    let m: string | undefined;
+    if ((m = P.ignore.code(e.code)) || (m = P.ignore.label(e.label))) return { role: 'ignore', why: `ignore pattern ${m}` };
+    if ((m = P.output.label(e.label))) return { role: 'output', why: `label matches ${m}` };
+    if ((m = P.totals.label(e.label))) {
+      const r: RoleWhy<ColumnRole> = { role: 'total', why: `label matches ${m}` };
+      if (!plain && P.finalDemand.label(stripTotal(e.label))) r.alt = 'final-demand';
+      return r;
+    }
+    if (rowCodes.has(e.code)) return { role: 'sector', why: 'its code names a row too' };
+    if ((m = P.totals.code(e.code))) {
+      const r: RoleWhy<ColumnRole> = { role: 'total', why: `code matches ${m}` };
+      if (!plain && P.finalDemand.label(stripTotal(e.label))) r.alt = 'final-demand';
+      return r;
+    }
+    if ((m = P.output.code(e.code))) return { role: 'output', why: `code matches ${m}` };
+    if (plain) return { role: 'sector', why: kind === 'make' ? 'a commodity column' : 'a matrix column' };
+    if ((m = P.finalDemand.code(e.code))) return { role: 'final-demand', why: `code matches ${m}` };
+    if ((m = P.finalDemand.label(e.label))) return { role: 'final-demand', why: `label matches ${m}` };
+    return { role: undefined, why: '' };
+  };
+
+  const rowRole = (e: Entry): RoleWhy<RowRole> => {
+    const o = overrideFor<RowRole>(rowO, e);
+    if (o?.role) return { role: o.role, why: 'mapping' };
+    const sr = sheetRole(e, ROW_ROLES, 'row');
+    if (sr) return { role: sr, why: 'role written in the sheet' };
+    let m: string | undefined;
+    if ((m = P.ignore.code(e.code)) || (m = P.ignore.label(e.label))) return { role: 'ignore', why: `ignore pattern ${m}` };
+    if ((m = P.output.label(e.label))) return { role: 'output', why: `label matches ${m}` };
+    const altOf = (label: string): RowRole | undefined => {
+      if (plain) return undefined;
+      const s = stripTotal(label);
+      if (P.imports.label(s)) return 'imports';
+      if (P.valueAdded.label(s)) return 'value-added';
+      return undefined;
+    };
+    if ((m = P.totals.label(e.label))) {
+      const r: RoleWhy<RowRole> = { role: 'total', why: `label matches ${m}` };
+      const alt = altOf(e.label);
+      if (alt) r.alt = alt;
+      return r;
+    }
+    if (colCodes.has(e.code)) return { role: 'sector', why: 'its code names a column too' };
+    if ((m = P.totals.code(e.code))) {
+      const r: RoleWhy<RowRole> = { role: 'total', why: `code matches ${m}` };
+      const alt = altOf(e.label);
+      if (alt) r.alt = alt;
+      return r;
+    }
+    if ((m = P.output.code(e.code))) return { role: 'output', why: `code matches ${m}` };
+    if (plain) return { role: 'sector', why: kind === 'make' ? 'an industry row' : 'a matrix row' };
+    if ((m = P.valueAdded.code(e.code))) return { role: 'value-added', why: `code matches ${m}` };
+    if ((m = P.imports.code(e.code))) return { role: 'imports', why: `code matches ${m}` };
+    if ((m = P.satellite.code(e.code))) return { role: 'satellite', why: `code matches ${m}` };
+    if ((m = P.imports.label(e.label))) return { role: 'imports', why: `label matches ${m}` };
+    if ((m = P.valueAdded.label(e.label))) return { role: 'value-added', why: `label matches ${m}` };
+    if ((m = P.satellite.label(e.label))) return { role: 'satellite', why: `label matches ${m}` };
+    if (e.unit) return { role: 'satellite', why: 'it has a unit' };
+    return { role: undefined, why: '' };
+  };
+
+  const cr = block.cols.map(colRole);
+  const rr = block.rows.map(rowRole);
+
+  // Position for what is left.
+  {
+    let seenOther = false;
+    let afterOutput = false;
+    for (const x of cr) {
+      if (x.role === undefined) {
+        if (!wide || !seenOther) x.role = 'sector';
+        else if (afterOutput) x.role = 'ignore';
+        else x.role = 'final-demand';
+        x.why = !wide ? 'not a final-demand or total code' : !seenOther ? 'before the first final-demand or total column' : afterOutput ? 'after the output column' : 'after the sector columns';
+        if (afterOutput) x.why += ' (not read)';
+      } else if (x.role !== 'sector') seenOther = true;
+      if (x.role === 'output') afterOutput = true;
+    }
+  }
+  {
+    let seenOther = false;
+    let afterOutput = false;
+    for (const x of rr) {
+      if (x.role === undefined) {
+        if (!wide || !seenOther) x.role = 'sector';
+        else if (afterOutput) x.role = 'satellite';
+        else x.role = 'value-added';
+        x.why = !wide ? 'not a value-added or total code' : !seenOther ? 'before the first value-added or total row' : afterOutput ? 'after the output row' : 'after the sector rows';
+      } else if (x.role !== 'sector') seenOther = true;
+      if (x.role === 'output') afterOutput = true;
+    }
+  }
+
+  const rowRoles = rr.map((x) => x.role!) as RowRole[];
+  const colRoles = cr.map((x) => x.role!) as ColumnRole[];
+  const rowWhy = rr.map((x) => x.why);
+  const colWhy = cr.map((x) => x.why);
+
+  let totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
+  // Demote unexplained totals whose label says what they are; promote the sum of everything to output.
+  let changed = false;
+  for (const t of totals) {
+    const list = t.axis === 'row' ? rr : cr;
+    const idx = (t.axis === 'row' ? block.rows : block.cols).findIndex((e) => e.code === t.code);
+    const x = list[idx]!;
+    if (!t.sumOf && x.alt && x.why !== 'mapping' && x.why !== 'role written in the sheet') {
+      (t.axis === 'row' ? rowRoles : colRoles)[idx] = x.alt as never;
+      (t.axis === 'row' ? rowWhy : colWhy)[idx] = `${x.why}, but it is the sum of nothing before or after it, so it is read as ${x.alt}`;
+      changed = true;
+    }
+  }
+  const promotable = kind === 'flows' || kind === 'use' || kind === 'make';
+  if (promotable) {
+    for (const axis of ['row', 'column'] as const) {
+      const roles = axis === 'row' ? rowRoles : colRoles;
+      if (roles.includes('output')) continue;
+      const grand = totals.filter((t) => t.axis === axis && t.sumOf === ALL_NAME[axis] && t.matched === t.checked && t.checked > 0);
+      const t = grand[grand.length - 1];
+      if (!t) continue;
+      const idx = (axis === 'row' ? block.rows : block.cols).findIndex((e) => e.code === t.code);
+      if (['mapping', 'role written in the sheet'].includes((axis === 'row' ? rr : cr)[idx]!.why)) continue;
+      roles[idx] = 'output';
+      (axis === 'row' ? rowWhy : colWhy)[idx] += `; it is the sum of ${ALL_NAME[axis]}, so it is read as total output`;
+      changed = true;
+    }
+  }
+  if (changed) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
+  checkTotals(block, rowRoles, colRoles, kind, findings, true, totals);
+
+  const units = block.rows.map((e, i) => {
+    const o = overrideFor<RowRole>(rowO, e);
+    if (o?.unit) return o.unit;
+    if (e.unit) return e.unit;
+    if (rowRoles[i] === 'satellite' && e.unitInLabel) return e.unitInLabel;
+    return undefined;
+  });
+  // Labels given in the mapping.
+  block.rows.forEach((e) => {
+    const o = overrideFor<RowRole>(rowO, e);
+    if (o?.label) e.label = o.label;
+  });
+  block.cols.forEach((e) => {
+    const o = overrideFor<ColumnRole>(colO, e);
+    if (o?.label) e.label = o.label;
+  });
+  return { rowRoles, colRoles, rowWhy, colWhy, units, totals, findings };
+}
+
+const ALL_NAME = { row: 'all sector, value-added and imports rows', column: 'all sector and final-demand columns' } as const;
+
+interface Candidate {
+  name: string;
+  /** Which parts: a block, or a range of the parts in order. */
+  block?: 'sector' | 'other' | 'imports' | 'primary' | 'all';
+  from?: number;
+  to?: number;
+}
+
+interface Stat {
+  checked: number;
+  matched: number;
+  /** By block of the lines (0 sector, 1 value added or final demand, 2 imports): totals present, and missing where the parts are not zero. */
+  present: number[];
+  missingBy: number[];
+  firstMissingBy: number[];
+  missing: number;
+  worstGap: number;
+  worstLine: number;
+  worstFound: number;
+  worstSum: number;
+  firstMissing: number;
+  mismatches: number[];
+}
+
+function newStat(): Stat {
+  return { checked: 0, matched: 0, present: [0, 0, 0], missingBy: [0, 0, 0], firstMissingBy: [-1, -1, -1], missing: 0, worstGap: -1, worstLine: -1, worstFound: 0, worstSum: 0, firstMissing: -1, mismatches: [] };
+}
+
+/**
+ * Check every total line against its candidate sums. With `report`, turn the given checks into
+ * findings (mismatched cells, missing totals, totals that match no sum).
+ */
+function checkTotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], kind: TableKind, findings: Finding[], report: boolean, done?: TotalCheck[]): TotalCheck[] {
+  if (report) {
+    reportTotals(block, done!, rowRoles, colRoles, findings);
+    return done!;
+  }
+  const out: TotalCheck[] = [];
+  const unit = block.decimals === undefined ? 0 : 10 ** -block.decimals;
+  // Rounding of the parts: each is off by at most half a unit, and their errors add like independent
+  // uniform errors (six standard deviations, capped by the worst case), plus the total's own half unit.
+  const tolOf = (found: number, sum: number, nz: number) => unit * Math.min(0.5 * (nz + 1), 6 * Math.sqrt(nz / 12) + 0.5) + 1e-9 * Math.max(Math.abs(found), Math.abs(sum), 1);
+
+  // Column totals: parts are sector and final-demand columns; lines are sector, value-added and imports rows.
+  {
+    const tIdx = colRoles.map((r, j) => (r === 'total' || r === 'output' ? j : -1)).filter((j) => j >= 0);
+    if (tIdx.length) {
+      const parts: number[] = [];
+      const partKind: number[] = []; // 1 sector, 2 final demand
+      const before: number[] = new Array(block.cols.length).fill(0);
+      for (let j = 0; j < block.cols.length; j++) {
+        before[j] = parts.length;
+        if (colRoles[j] === 'sector' || colRoles[j] === 'final-demand') {
+          parts.push(block.cols[j]!.pos);
+          partKind.push(colRoles[j] === 'sector' ? 1 : 2);
+        }
+      }
+      const cands = tIdx.map((t, q) => candidatesFor(t, q, tIdx, before, parts.length, block.cols, 'column', kind));
+      const stats = cands.map((cs) => cs.map(newStat));
+      const lines = rowRoles.map((r, i) => (r === 'sector' || r === 'value-added' || r === 'imports' ? i : -1)).filter((i) => i >= 0);
+      const P = new Float64Array(parts.length + 1);
+      const N = new Int32Array(parts.length + 1);
+      for (const i of lines) {
+        const v = block.values(i);
+        const lineBlock = rowRoles[i] === 'sector' ? 0 : rowRoles[i] === 'value-added' ? 1 : 2;
+        let s1 = 0;
+        let s2 = 0;
+        let n1 = 0;
+        let n2 = 0;
+        for (let k = 0; k < parts.length; k++) {
+          let x = v[parts[k]!]!;
+          if (x !== x) x = 0;
+          P[k + 1] = P[k]! + x;
+          N[k + 1] = N[k]! + (x !== 0 ? 1 : 0);
+          if (partKind[k] === 1) {
+            s1 += x;
+            if (x !== 0) n1++;
+          } else {
+            s2 += x;
+            if (x !== 0) n2++;
+          }
+        }
+        tIdx.forEach((t, q) => {
+          const found = v[block.cols[t]!.pos]!;
+          cands[q]!.forEach((c, ci) => {
+            const st = stats[q]![ci]!;
+            let sum: number;
+            let nz: number;
+            if (c.block === 'sector') [sum, nz] = [s1, n1];
+            else if (c.block === 'other') [sum, nz] = [s2, n2];
+            else if (c.block === 'all') [sum, nz] = [s1 + s2, n1 + n2];
+            else [sum, nz] = [P[c.to!]! - P[c.from!]!, N[c.to!]! - N[c.from!]!];
+            tally(st, i, lineBlock, found, sum, nz, tolOf);
+          });
+        });
+      }
+      tIdx.forEach((t, q) => out.push(best(block.cols[t]!, 'column', colRoles[t] as 'total' | 'output', cands[q]!, stats[q]!)));
+    }
+  }
+
+  // Row totals: parts are sector, value-added and imports rows; lines are sector and final-demand columns.
+  {
+    const tIdx = rowRoles.map((r, i) => (r === 'total' || r === 'output' ? i : -1)).filter((i) => i >= 0);
+    if (tIdx.length) {
+      const lines = colRoles.map((r, j) => (r === 'sector' || r === 'final-demand' ? j : -1)).filter((j) => j >= 0);
+      const L = lines.length;
+      const pos = lines.map((j) => block.cols[j]!.pos);
+      const zero = () => ({ s: new Float64Array(L), n: new Int32Array(L) });
+      const cum = zero();
+      const sec = zero();
+      const va = zero();
+      const imp = zero();
+      const snaps: { s: Float64Array; n: Int32Array }[] = [];
+      const before: number[] = new Array(block.rows.length).fill(0);
+      let partCount = 0;
+      for (let i = 0; i < block.rows.length; i++) {
+        before[i] = partCount;
+        const r = rowRoles[i];
+        if (r === 'total' || r === 'output') {
+          snaps.push({ s: cum.s.slice(), n: cum.n.slice() });
+          continue;
+        }
+        if (r !== 'sector' && r !== 'value-added' && r !== 'imports') continue;
+        partCount++;
+        const v = block.values(i);
+        const target = r === 'sector' ? sec : r === 'value-added' ? va : imp;
+        for (let k = 0; k < L; k++) {
+          let x = v[pos[k]!]!;
+          if (x !== x) x = 0;
+          cum.s[k] += x;
+          target.s[k] += x;
+          if (x !== 0) {
+            cum.n[k]++;
+            target.n[k]++;
+          }
+        }
+      }
+      const cands = tIdx.map((t, q) => candidatesFor(t, q, tIdx, before, partCount, block.rows, 'row', kind));
+      const snapAt = (q: number) => (q < 0 ? zero() : q >= snaps.length ? cum : snaps[q]!);
+      tIdx.forEach((t, q) => {
+        const v = block.values(t);
+        const st = cands[q]!.map(newStat);
+        cands[q]!.forEach((c, ci) => {
+          let a: { s: Float64Array; n: Int32Array };
+          let b: { s: Float64Array; n: Int32Array } | undefined;
+          if (c.block === 'sector') a = sec;
+          else if (c.block === 'other') a = va;
+          else if (c.block === 'imports') a = imp;
+          else if (c.block === 'primary') {
+            a = { s: va.s.map((x, k) => x + imp.s[k]!), n: va.n.map((x, k) => x + imp.n[k]!) };
+          } else if (c.block === 'all') a = cum;
+          else {
+            // Ranges are between snapshots: from = index of the total that opens the run (-1 for the start).
+            a = snapAt(c.to!);
+            b = snapAt(c.from!);
+          }
+          for (let k = 0; k < L; k++) {
+            const sum = b ? a.s[k]! - b.s[k]! : a.s[k]!;
+            const nz = b ? a.n[k]! - b.n[k]! : a.n[k]!;
+            tally(st[ci]!, lines[k]!, colRoles[lines[k]!] === 'sector' ? 0 : 1, v[pos[k]!]!, sum, nz, tolOf);
+          }
+        });
+        out.push(best(block.rows[t]!, 'row', rowRoles[t] as 'total' | 'output', cands[q]!, st));
+      });
+    }
+  }
+  return out;
+}
+
+const statsOf = new WeakMap<TotalCheck, { stat: Stat; partsOf: string }>();
+
+function decimalsOf(x: number): number {
+  const ax = Math.abs(x);
+  let d = 0;
+  while (d < 9 && Math.abs(ax * 10 ** d - Math.round(ax * 10 ** d)) > 1e-7 * Math.max(1, ax * 10 ** d)) d++;
+  return d;
+}
+
+function tally(st: Stat, line: number, lineBlock: number, found: number, sum: number, nz: number, tolOf: (f: number, s: number, n: number) => number): void {
+  if (found !== found) {
+    if (Math.abs(sum) > tolOf(0, sum, nz)) {
+      st.missingBy[lineBlock]++;
+      if (st.firstMissingBy[lineBlock]! < 0) st.firstMissingBy[lineBlock] = line;
+    }
+    return;
+  }
+  st.present[lineBlock]++;
+  st.checked++;
+  const gap = Math.abs(found - sum);
+  // The parts' rounding, and the total's own (a total may be rounded to fewer decimals than its parts).
+  if (gap <= tolOf(found, sum, nz) || gap <= tolOf(found, sum, nz) + 0.5 * 10 ** -decimalsOf(found)) st.matched++;
+  else if (st.mismatches.length < 50) st.mismatches.push(line);
+  if (gap > st.worstGap) {
+    st.worstGap = gap;
+    st.worstLine = line;
+    st.worstFound = found;
+    st.worstSum = sum;
+  }
+}
+
+/** Missing totals count only in blocks of lines where the total has some values (a total of the sector rows is empty under final demand by design). */
+function settleMissing(st: Stat): void {
+  st.missing = 0;
+  st.firstMissing = -1;
+  for (let b = 0; b < 3; b++) {
+    if (!st.present[b]) continue;
+    st.missing += st.missingBy[b]!;
+    if (st.firstMissing < 0 && st.firstMissingBy[b]! >= 0) st.firstMissing = st.firstMissingBy[b]!;
+  }
+}
+
+function candidatesFor(t: number, q: number, tIdx: number[], before: number[], nParts: number, entries: Entry[], axis: 'row' | 'column', kind: TableKind): Candidate[] {
+  const plain = kind === 'matrix' || kind === 'make';
+  const cands: Candidate[] = [];
+  const sectorName = axis === 'column' ? 'the sector columns' : 'the sector rows';
+  cands.push({ name: sectorName, block: 'sector' });
+  if (!plain) {
+    cands.push({ name: axis === 'column' ? 'the final-demand columns' : 'the value-added rows', block: 'other' });
+    if (axis === 'row') {
+      cands.push({ name: 'the imports rows', block: 'imports' });
+      cands.push({ name: 'the value-added and imports rows', block: 'primary' });
+    }
+    cands.push({ name: ALL_NAME[axis], block: 'all' });
+  }
+  // Runs between totals, in parts order (columns) or between snapshots (rows).
+  const start = q > 0 ? before[tIdx[q - 1]!]! : 0;
+  const here = before[t]!;
+  const end = q + 1 < tIdx.length ? before[tIdx[q + 1]!]! : nParts;
+  const codeRange = (from: number, to: number): string => {
+    // Names of the first and last part in the range.
+    const names: string[] = [];
+    let k = 0;
+    for (let i = 0; i < entries.length && names.length < 2; i++) {
+      if (before[i] === undefined) continue;
+      const isPart = i + 1 < entries.length ? before[i + 1]! > before[i]! : nParts > before[i]!;
+      if (!isPart) continue;
+      if (k === from) names.push(entries[i]!.code);
+      if (k === to - 1) names.push(entries[i]!.code);
+      k++;
+    }
+    return names.length === 2 && names[0] !== names[1] ? `${names[0]}..${names[1]}` : names[0] ?? '';
+  };
+  if (axis === 'column') {
+    if (here > start) cands.push({ name: codeRange(start, here), from: start, to: here });
+    if (end > here) cands.push({ name: codeRange(here, end), from: here, to: end });
+    if (here > 0 && start > 0) cands.push({ name: `everything before ${entries[t]!.code}`, from: 0, to: here });
+  } else {
+    // Rows: snapshot q is taken at total q; ranges are differences of snapshots.
+    if (here > start) cands.push({ name: codeRange(start, here), from: q - 1, to: q });
+    if (end > here) cands.push({ name: codeRange(here, end), from: q, to: q + 1 });
+    if (here > 0 && start > 0) cands.push({ name: `everything before ${entries[t]!.code}`, from: -1, to: q });
+  }
+  return cands;
+}
+
+function best(e: Entry, axis: 'row' | 'column', role: 'total' | 'output', cands: Candidate[], stats: Stat[]): TotalCheck {
+  for (const s of stats) settleMissing(s);
+  let bi = -1;
+  let bs = -1;
+  stats.forEach((s, i) => {
+    const score = s.checked ? s.matched / s.checked : 0;
+    if (score > bs + 1e-12) {
+      bs = score;
+      bi = i;
+    }
+  });
+  const s = stats[bi]!;
+  const recognised = s.checked > 0 && s.matched / s.checked >= 0.5;
+  const t: TotalCheck = { axis, code: e.code, label: e.label, role, sumOf: recognised ? cands[bi]!.name : '', checked: s.checked, matched: recognised ? s.matched : 0 };
+  if (s.worstLine >= 0 && recognised && s.worstGap > 0) t.worst = { line: String(s.worstLine), found: s.worstFound, sum: s.worstSum };
+  statsOf.set(t, { stat: s, partsOf: recognised ? cands[bi]!.name : '' });
+  return t;
+}
+
+function reportTotals(block: Block, totals: TotalCheck[], rowRoles: RowRole[], colRoles: ColumnRole[], findings: Finding[]): void {
+  for (const t of totals) {
+    const info = statsOf.get(t)!;
+    const s = info.stat;
+    const isCol = t.axis === 'column';
+    const idx = (isCol ? block.cols : block.rows).findIndex((e) => e.code === t.code);
+    const role = isCol ? colRoles[idx] : rowRoles[idx];
+    if (role !== 'total' && role !== 'output') continue;
+    const what = `${t.axis} ${t.code}${t.label !== t.code ? ` ('${t.label}')` : ''}`;
+    const whereOf = (line: number): Where => (isCol ? block.where(line, idx) : block.where(idx, line));
+    if (t.worst) {
+      const w = whereOf(Number(t.worst.line));
+      t.worst.line = isCol ? block.rows[Number(t.worst.line)]!.code : block.cols[Number(t.worst.line)]!.code;
+      if (w.cell) t.worst.cell = w.cell;
+    }
+    if (!t.sumOf) {
+      findings.push({
+        code: 'total-unexplained',
+        severity: 'warning',
+        message: `${what} of file ${block.file} is read as a ${t.role === 'output' ? 'total output line' : 'total'}, but it is not the sum of the sector block, the ${isCol ? 'final-demand' : 'value-added'} block, everything, or the ${isCol ? 'columns' : 'rows'} next to it${s.checked === 0 ? ' (it is empty)' : ''}; it was not read as data${t.role === 'output' ? '' : '. If it holds data, set its role in the mapping'}`,
+        where: (isCol ? block.cols[idx] : block.rows[idx])!.where ?? { file: block.file },
+        data: { checked: s.checked },
+      });
+      continue;
+    }
+    const bad = t.checked - t.matched;
+    if (bad > 0) {
+      const w = whereOf(s.mismatches[0] ?? s.worstLine);
+      const ww = whereOf(s.worstLine);
+      findings.push({
+        code: 'total-mismatch',
+        severity: 'warning',
+        message: `${what} of file ${block.file} is the sum of ${t.sumOf} in ${t.matched} of ${t.checked} ${isCol ? 'rows' : 'columns'}; in ${bad} it differs by more than rounding, the most at cell ${ww.cell ?? describeCode(ww)}: ${fmt(s.worstFound)} found, ${fmt(s.worstSum)} summed (first at ${w.cell ?? describeCode(w)})`,
+        where: ww,
+        data: { mismatches: bad, found: s.worstFound, sum: s.worstSum },
+      });
+    }
+    if (s.missing > 0) {
+      const w = whereOf(s.firstMissing);
+      findings.push({
+        code: 'total-missing',
+        severity: 'warning',
+        message: `${what} of file ${block.file} is empty in ${s.missing} ${isCol ? 'row' : 'column'}${s.missing > 1 ? 's' : ''} that have data, first at cell ${w.cell ?? describeCode(w)}`,
+        where: w,
+        data: { missing: s.missing },
+      });
+    }
+  }
+}
+
+function describeCode(w: Where): string {
+  return `(row '${w.rowLabel ?? ''}', column '${w.columnLabel ?? ''}')`;
+}
+
+function fmt(x: number): string {
+  return Number.isInteger(x) ? String(x) : x.toPrecision(10).replace(/\.?0+$/, '');
+}
+
+/** Read cells of a block into a row-major matrix; empty and text cells follow the options, else an error naming the first and counting all. */
+export function readCells(block: Block, rows: number[], cols: number[], what: string, options: AssembleOptions): Float64Array {
+  const nr = rows.length;
+  const nc = cols.length;
+  // A long file's dense block read whole, in order: no copy.
+  if (block instanceof DenseBlock && nr === block.rows.length && nc === block.cols.length && rows.every((i, a) => i === a && block.rows[i]!.pos === a) && cols.every((j, b) => j === b && block.cols[j]!.pos === b)) {
+    return block.data;
+  }
+  const out = new Float64Array(nr * nc);
+  const zeroBlank = (options.blanks ?? options.mapping?.blanks ?? 'error') === 'zero';
+  const zeroTexts = new Set((options.zeroTexts ?? options.mapping?.zeroTexts ?? []).map((t) => t.trim()));
+  const pos = cols.map((j) => block.cols[j]!.pos);
+  let blank = 0;
+  let firstBlank: [number, number] | undefined;
+  let text = 0;
+  let firstText: [number, number] | undefined;
+  for (let a = 0; a < nr; a++) {
+    const i = rows[a]!;
+    const v = block.values(i);
+    const o = a * nc;
+    for (let b = 0; b < nc; b++) {
+      const x = v[pos[b]!]!;
+      if (x === x) {
+        out[o + b] = x;
+        continue;
+      }
+      const k = block.kind(i, cols[b]!);
+      if (k !== TEXT) {
+        if (zeroBlank) out[o + b] = 0;
+        else {
+          blank++;
+          firstBlank ??= [i, cols[b]!];
+        }
+      } else {
+        const t = block.text(i, cols[b]!).trim();
+        if (zeroTexts.has(t)) out[o + b] = 0;
+        else {
+          text++;
+          firstText ??= [i, cols[b]!];
+        }
+      }
+    }
+  }
+  if (firstText) {
+    const w = block.where(firstText[0], firstText[1]);
+    const hint = numberHint(w.text ?? '', undefined);
+    throw new InputError(
+      'not-a-number',
+      `${locate(w)}: text '${w.text ?? ''}' where a number belongs in the ${what}${text > 1 ? ` (${text} cells like it)` : ''}`,
+      w,
+      hint ?? 'Give a number; if such a text means zero here, pass it in zeroTexts',
+    );
+  }
+  if (firstBlank) {
+    const w = block.where(firstBlank[0], firstBlank[1]);
+    throw new InputError(
+      'blank-cell',
+      `${locate(w)} is empty, in the ${what}${blank > 1 ? ` (${blank} empty cells)` : ''}`,
+      w,
+      `If empty cells mean zero in this file, read it with blanks: 'zero'`,
+    );
+  }
+  return out;
+}
+
+/** `file f, sheet 's', cell C4 (row '...', column '...')`. */
+export function locate(w: Where): string {
+  const parts: string[] = [];
+  if (w.file) parts.push(`file ${w.file}`);
+  if (w.sheet) parts.push(`sheet '${w.sheet}'`);
+  let s = parts.join(', ');
+  const labels: string[] = [];
+  if (w.rowLabel) labels.push(`row '${w.rowLabel}'`);
+  if (w.columnLabel) labels.push(`column '${w.columnLabel}'`);
+  if (w.cell) s += `${s ? ', ' : ''}cell ${w.cell}`;
+  if (labels.length) s += ` (${labels.join(', ')})`;
+  return s;
+}
+
+/** Entries of one role, in order, with duplicates reported by cell. */
+function pick(entries: Entry[], roles: string[], role: string, what: string, file: string): number[] {
+  const out: number[] = [];
+  const seen = new Map<string, number>();
+  roles.forEach((r, i) => {
+    if (r !== role) return;
+    const e = entries[i]!;
+    const prev = seen.get(e.code);
+    if (prev !== undefined) {
+      const p = entries[prev]!;
+      throw new InputError(
+        'duplicate-code',
+        `file ${file}: ${what} code '${e.code}' appears twice, ${describeEntry(p)} and ${describeEntry(e)}`,
+        { ...(e.where ?? { file }), sector: e.code },
+        'Each code must be unique; merge the two or give one a new code',
+      );
+    }
+    seen.set(e.code, i);
+    out.push(i);
+  });
+  return out;
+}
+
+function describeEntry(e: Entry): string {
+  return e.where?.cell ? `in cell ${e.where.cell}` : `at position ${e.at}`;
+}
+
+function axisOf(entries: Entry[], idx: number[]): Axis {
+  return { codes: idx.map((i) => entries[i]!.code), labels: idx.map((i) => entries[i]!.label) };
+}
+
+/** The mapping as reported. */
+export function mappingOf(block: Block, c: Classified, kind: TableKind, options: AssembleOptions, extra: Partial<LayoutMapping>): LayoutMapping {
+  const rows: MappedRow[] = block.rows.map((e, i) => {
+    const m: MappedRow = { code: e.code, label: e.label, role: c.rowRoles[i]!, row: e.at, why: c.rowWhy[i]! };
+    const u = c.units[i];
+    if (u !== undefined && (c.rowRoles[i] === 'satellite' || e.unit)) m.unit = u;
+    return m;
+  });
+  const columns: MappedColumn[] = block.cols.map((e, j) => ({ code: e.code, label: e.label, role: c.colRoles[j]!, column: e.at, why: c.colWhy[j]! }));
+  const m: LayoutMapping = {
+    format: 'ripplewise-layout',
+    version: 1,
+    kind,
+    shape: block.shape,
+    file: block.file,
+    rows,
+    columns,
+    output: { from: 'none' },
+    blanks: options.blanks ?? options.mapping?.blanks ?? 'error',
+    totals: c.totals,
+    ...extra,
+  };
+  if (block.sheet !== undefined) m.sheet = block.sheet;
+  const zt = options.zeroTexts ?? options.mapping?.zeroTexts;
+  if (zt?.length) m.zeroTexts = [...zt];
+  const pats = options.patterns ?? options.mapping?.patterns;
+  if (pats) m.patterns = pats;
+  return m;
+}
+
+export interface AssembledTable {
+  table: Table;
+  mapping: LayoutMapping;
+  findings: Finding[];
+}
+
+/**
+ * A symmetric table (flows, or coefficients with or without outputs) from a block. Sector rows
+ * and columns must carry the same codes (in any order; columns follow the rows).
+ */
+export function assembleTable(block: Block, options: AssembleOptions, meta: TableMeta, extra: Partial<LayoutMapping>): AssembledTable {
+  const kind = options.kind;
+  const c = classify(block, options);
+  const findings = [...c.findings];
+  const file = block.file;
+  const sr = pick(block.rows, c.rowRoles, 'sector', 'sector row', file);
+  const scRaw = pick(block.cols, c.colRoles, 'sector', 'sector column', file);
+  const fd = pick(block.cols, c.colRoles, 'final-demand', 'final-demand', file);
+  const va = pick(block.rows, c.rowRoles, 'value-added', 'value-added', file);
+  const imp = pick(block.rows, c.rowRoles, 'imports', 'imports', file);
+  const sat = pick(block.rows, c.rowRoles, 'satellite', 'satellite', file);
+  if (!sr.length) throw new InputError('no-sectors', `file ${file}: no sector rows were found`, { file }, 'Check the layout the reader reports, or set the roles of rows in the mapping');
+
+  // Match columns to rows by code.
+  const colByCode = new Map(scRaw.map((j) => [block.cols[j]!.code, j]));
+  const rowCodes = new Set(sr.map((i) => block.rows[i]!.code));
+  for (const i of sr) {
+    const e = block.rows[i]!;
+    if (!colByCode.has(e.code)) {
+      throw new InputError(
+        'row-without-column',
+        `file ${file}: sector row '${e.code}'${e.label !== e.code ? ` ('${e.label}')` : ''} ${describeEntry(e)} has no column with the same code; a symmetric table needs each sector as a row and as a column`,
+        { ...(e.where ?? { file }), sector: e.code },
+        kind === 'flows' || kind === 'coefficients' ? 'If this is a use table (commodities by industries), read it with the make table as supply-use tables; otherwise add the column, or set the row\'s role in the mapping' : undefined,
+      );
+    }
+  }
+  for (const j of scRaw) {
+    const e = block.cols[j]!;
+    if (!rowCodes.has(e.code)) {
+      throw new InputError(
+        'column-without-row',
+        `file ${file}: sector column '${e.code}'${e.label !== e.code ? ` ('${e.label}')` : ''} ${describeEntry(e)} has no row with the same code; a symmetric table needs each sector as a row and as a column`,
+        { ...(e.where ?? { file }), sector: e.code },
+        'Add the row, or set the column\'s role in the mapping (final-demand, total, ignore)',
+      );
+    }
+  }
+  const sc = sr.map((i) => colByCode.get(block.rows[i]!.code)!);
+  if (sc.some((j, k) => k > 0 && j < sc[k - 1]!)) {
+    findings.push({ code: 'columns-reordered', severity: 'note', message: `file ${file}: the sector columns are in a different order from the rows; they were put in the order of the rows`, where: { file } });
+  }
+  const n = sr.length;
+  const sectors = axisOf(block.rows, sr);
+  let Zd = readCells(block, sr, sc, 'intermediate block', options);
+  if (kind === 'coefficients' && block instanceof DenseBlock && Zd === block.data) Zd = Zd.slice();
+  const Fd = readCells(block, sr, fd, 'final-demand block', options);
+  const Vd = readCells(block, va, sc, 'value-added block', options);
+
+  // Output.
+  const outCols = c.colRoles.map((r, j) => (r === 'output' ? j : -1)).filter((j) => j >= 0);
+  const outRows = c.rowRoles.map((r, i) => (r === 'output' ? i : -1)).filter((i) => i >= 0);
+  const want = options.mapping?.output;
+  let x: Float64Array;
+  let from: LayoutMapping['output'];
+  const colOutput = (j: number) => {
+    const e = block.cols[j]!;
+    x = readOutput(block, sr, j, 'column', Zd, n);
+    from = { from: 'column', code: e.code };
+  };
+  const rowOutput = (i: number) => {
+    const e = block.rows[i]!;
+    x = readOutput(block, sc, i, 'row', Zd, n);
+    from = { from: 'row', code: e.code };
+  };
+  if (want?.from === 'assumed') {
+    x = new Float64Array(n).fill(1);
+    from = { from: 'assumed' };
+  } else if (want?.from === 'column' || want?.from === 'row') {
+    const list = want.from === 'column' ? outCols : outRows;
+    const entries = want.from === 'column' ? block.cols : block.rows;
+    const hit = want.code ? (want.from === 'column' ? block.cols : block.rows).findIndex((e) => e.code === want.code) : list[0];
+    if (hit === undefined || hit < 0) {
+      throw new InputError('missing-total', `file ${file}: the mapping takes total output from a ${want.from}${want.code ? ` coded '${want.code}'` : ''}, but there is no such ${want.from}`, { file }, `Known ${want.from} codes: ${entries.slice(0, 10).map((e) => e.code).join(', ')}`);
+    }
+    if (want.from === 'column') colOutput(hit);
+    else rowOutput(hit);
+  } else if (want?.from === 'row-sums') {
+    x = rowSums(Zd, Fd, n, fd.length);
+    from = { from: 'row-sums' };
+  } else if (outCols.length) colOutput(outCols[outCols.length - 1]!);
+  else if (outRows.length) rowOutput(outRows[outRows.length - 1]!);
+  else if (kind === 'coefficients') {
+    x = new Float64Array(n).fill(1);
+    from = { from: 'assumed' };
+  } else {
+    x = rowSums(Zd, Fd, n, fd.length);
+    from = { from: 'row-sums' };
+    findings.push({ code: 'output-from-row-sums', severity: 'note', message: `file ${file} has no total output column or row; total output is taken as the row sums (intermediate use plus final demand)`, where: { file } });
+  }
+  x = x!;
+  from = from!;
+
+  const tmeta: TableMeta = { ...meta, ...(options.mapping?.meta ?? {}) };
+  let Z: Matrix = { rows: n, cols: n, data: Zd };
+  let V: Matrix = { rows: va.length, cols: n, data: Vd };
+  let importsData: Float64Array | undefined;
+  if (imp.length) {
+    const I = readCells(block, imp, sc, 'imports row', options);
+    importsData = new Float64Array(n);
+    for (let a = 0; a < imp.length; a++) for (let j = 0; j < n; j++) importsData[j] += I[a * n + j]!;
+    if (imp.length > 1) {
+      findings.push({ code: 'imports-summed', severity: 'note', message: `file ${file}: ${imp.length} imports rows (${imp.map((i) => `'${block.rows[i]!.code}'`).join(', ')}) were added into one imports row`, where: { file } });
+    }
+  }
+  const satellites: Satellite[] = sat.map((i) => {
+    const e = block.rows[i]!;
+    const unit = c.units[i];
+    if (!unit) {
+      throw new InputError(
+        'no-unit',
+        `file ${file}: satellite row '${e.code}'${e.label !== e.code ? ` ('${e.label}')` : ''} ${describeEntry(e)} has no unit`,
+        { ...(e.where ?? { file }), rowLabel: e.label },
+        "Add a unit column (headed 'unit'), or write the unit in brackets at the end of the label, such as 'Employment (jobs)', or give it in the mapping",
+      );
+    }
+    return { code: e.code, label: e.label, unit, values: readCells(block, [i], sc, `satellite row '${e.code}'`, options) };
+  });
+
+  if (kind === 'coefficients') {
+    if (from.from === 'assumed') tmeta.outputAssumed = true;
+    else {
+      // Z = A x̂, V = Vc x̂; satellites given per unit of output likewise.
+      scaleColumns(Zd, n, n, x);
+      scaleColumns(Vd, va.length, n, x);
+      if (importsData) for (let j = 0; j < n; j++) importsData[j] *= x[j]!;
+      for (const s of satellites) for (let j = 0; j < n; j++) s.values[j] *= x[j]!;
+      findings.push({ code: 'coefficients-scaled', severity: 'note', message: `file ${file}: coefficients were multiplied by total output (${from.from} ${from.code ?? ''}) to give flows`, where: { file } });
+    }
+    Z = { rows: n, cols: n, data: Zd };
+    V = { rows: va.length, cols: n, data: Vd };
+  }
+
+  const table: Table = {
+    sectors,
+    Z,
+    finalDemand: axisOf(block.cols, fd),
+    F: { rows: n, cols: fd.length, data: Fd },
+    valueAdded: axisOf(block.rows, va),
+    V,
+    x,
+    satellites,
+    meta: tmeta,
+  };
+  if (importsData) table.imports = importsData;
+  validateTable(table);
+  const mapping = mappingOf(block, c, kind, options, { ...extra, output: from, meta: tmeta });
+  return { table, mapping, findings };
+}
+
+function scaleColumns(d: Float64Array, rows: number, cols: number, x: Float64Array): void {
+  for (let i = 0; i < rows; i++) for (let j = 0; j < cols; j++) d[i * cols + j] *= x[j]!;
+}
+
+function rowSums(Z: Float64Array, F: Float64Array, n: number, k: number): Float64Array {
+  const x = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    let s = 0;
+    for (let j = 0; j < n; j++) s += Z[i * n + j]!;
+    for (let j = 0; j < k; j++) s += F[i * k + j]!;
+    x[i] = s;
+  }
+  return x;
+}
+
+/** Total output from a total column (over the sector rows) or row (over the sector columns); empty cells where a sector has flows are an error. */
+function readOutput(block: Block, lines: number[], at: number, axis: 'row' | 'column', Z: Float64Array, n: number): Float64Array {
+  const x = new Float64Array(lines.length);
+  const e = axis === 'column' ? block.cols[at]! : block.rows[at]!;
+  let firstMissing = -1;
+  let missing = 0;
+  let firstText = -1;
+  for (let k = 0; k < lines.length; k++) {
+    const i = axis === 'column' ? lines[k]! : at;
+    const j = axis === 'column' ? at : lines[k]!;
+    const v = block.values(i)[block.cols[j]!.pos]!;
+    if (v === v) {
+      x[k] = v;
+      continue;
+    }
+    const kind = block.kind(i, j);
+    if (kind === TEXT) {
+      if (firstText < 0) firstText = k;
+      continue;
+    }
+    let flows = 0;
+    for (let t = 0; t < n; t++) flows += Math.abs(axis === 'column' ? Z[k * n + t]! : Z[t * n + k]!);
+    if (flows > 0) {
+      missing++;
+      if (firstMissing < 0) firstMissing = k;
+    }
+    x[k] = 0;
+  }
+  const cellOf = (k: number) => (axis === 'column' ? block.where(lines[k]!, at) : block.where(at, lines[k]!));
+  if (firstText >= 0) {
+    const w = cellOf(firstText);
+    throw new InputError('not-a-number', `${locate(w)}: text '${w.text ?? ''}' where total output belongs`, w, numberHint(w.text ?? '', undefined) ?? 'Give a number');
+  }
+  if (firstMissing >= 0) {
+    const w = cellOf(firstMissing);
+    throw new InputError(
+      'missing-total',
+      `${locate(w)}: total output (${axis} '${e.code}') is empty for a sector with flows${missing > 1 ? ` (${missing} sectors like it)` : ''}`,
+      w,
+      `Fill in total output, or take it from the row sums with mapping output: { from: 'row-sums' }`,
+    );
+  }
+  return x;
+}
+
+export interface AssembledMatrix {
+  rows: Axis;
+  cols: Axis;
+  matrix: Matrix;
+  mapping: LayoutMapping;
+  findings: Finding[];
+}
+
+/** A plain labelled matrix (requirements, coefficients by themselves): every row and column that is not a total or ignored. */
+export function assembleMatrix(block: Block, options: AssembleOptions, extra: Partial<LayoutMapping>): AssembledMatrix {
+  const o = { ...options, kind: 'matrix' as const };
+  const c = classify(block, o);
+  const r = pick(block.rows, c.rowRoles, 'sector', 'row', block.file);
+  const k = pick(block.cols, c.colRoles, 'sector', 'column', block.file);
+  const data = readCells(block, r, k, 'matrix', o);
+  return {
+    rows: axisOf(block.rows, r),
+    cols: axisOf(block.cols, k),
+    matrix: { rows: r.length, cols: k.length, data },
+    mapping: mappingOf(block, c, 'matrix', o, extra),
+    findings: c.findings,
+  };
+}
+
+/** The parts of a make or use table, for the supply-use reader. */
+export interface SupplyUsePart {
+  kind: 'make' | 'use';
+  block: Block;
+  classified: Classified;
+  sectorRows: number[];
+  sectorCols: number[];
+  finalDemand: number[];
+  valueAdded: number[];
+  outputRow?: number;
+  outputCol?: number;
+}
+
+export function classifyPart(block: Block, options: AssembleOptions): SupplyUsePart {
+  const c = classify(block, options);
+  const file = block.file;
+  const kind = options.kind as 'make' | 'use';
+  const rowWhat = kind === 'make' ? 'industry' : 'commodity';
+  const colWhat = kind === 'make' ? 'commodity' : 'industry';
+  const part: SupplyUsePart = {
+    kind,
+    block,
+    classified: c,
+    sectorRows: pick(block.rows, c.rowRoles, 'sector', `${rowWhat} row`, file),
+    sectorCols: pick(block.cols, c.colRoles, 'sector', `${colWhat} column`, file),
+    finalDemand: pick(block.cols, c.colRoles, 'final-demand', 'final-demand', file),
+    valueAdded: pick(block.rows, c.rowRoles, 'value-added', 'value-added', file),
+  };
+  const oc = c.colRoles.lastIndexOf('output');
+  const or = c.rowRoles.lastIndexOf('output');
+  if (oc >= 0) part.outputCol = oc;
+  if (or >= 0) part.outputRow = or;
+  return part;
+}

@@ -1,0 +1,392 @@
+/**
+ * CSV, TSV and semicolon files to a grid.
+ *
+ * The delimiter is found from the first lines (the one that splits them most consistently; on a
+ * tie tab, then semicolon, then bar, then comma), the decimal mark from the numbers themselves
+ * (see numbers.ts), the encoding from a byte-order mark or by trying UTF-8; each choice is
+ * reported in `conventions` and can be given instead. Files up to a few megabytes go through
+ * papaparse; larger ones (and streams) through the byte scanner of csv-scan.ts, which gives the
+ * same grid.
+ */
+import Papa from 'papaparse';
+import { cellRef, columnLetters, InputError, type Where } from '../../engine/errors';
+import type { Finding } from '../../engine/findings';
+import { CsvScanner, ESCAPED, type FieldSink, fieldText, numberScan, scanNumber } from './csv-scan';
+import { decodeBytes, type Encoding, sniffBom } from './decode';
+import { restoreText } from './escape';
+import { EMPTY, Grid, GridBuilder, type GridRow, TEXT } from './grid';
+import { checkBytes, type Limits, limitsOf, tooManyCells } from './limits';
+import { type DecimalMark, type NumberConventions, type NumberOptions, NumberReader } from './numbers';
+
+export type Delimiter = ',' | ';' | '\t' | '|';
+export const DELIMITERS: readonly Delimiter[] = ['\t', ';', '|', ','];
+
+export interface CsvOptions extends NumberOptions {
+  /** The file name, for messages. */
+  file: string;
+  delimiter?: Delimiter;
+  encoding?: Encoding;
+  limits?: Limits;
+  /** Which parser: papaparse, the byte scanner, or by size (default; the scanner above 8 MiB). */
+  parser?: 'auto' | 'papaparse' | 'scanner';
+}
+
+export interface CsvConventions extends NumberConventions {
+  delimiter: Delimiter;
+  delimiterFrom: 'option' | 'data' | 'default';
+  encoding: Encoding;
+  bom: boolean;
+}
+
+export interface CsvRead {
+  grid: Grid;
+  conventions: CsvConventions;
+  findings: Finding[];
+}
+
+/** Above this size, `parser: 'auto'` uses the byte scanner. */
+export const SCANNER_THRESHOLD = 8 * 1024 * 1024;
+
+/**
+ * The delimiter that splits a sample of lines most consistently: the share of lines that have
+ * the most common number of fields (at least two). Undefined when none splits the lines.
+ */
+export function detectDelimiter(sample: string): Delimiter | undefined {
+  let best: { d: Delimiter; score: number } | undefined;
+  for (const d of DELIMITERS) {
+    if (!sample.includes(d)) continue;
+    const res = Papa.parse<string[]>(sample, { delimiter: d, newline: '\n', quoteChar: '"', preview: 200 });
+    let rows = res.data;
+    if (rows.length > 1 && !sample.endsWith('\n')) rows = rows.slice(0, -1);
+    const counts = new Map<number, number>();
+    let lines = 0;
+    for (const r of rows) {
+      if (r.every((f) => f.trim() === '')) continue;
+      lines++;
+      counts.set(r.length, (counts.get(r.length) ?? 0) + 1);
+    }
+    let mode = 0;
+    let modeCount = 0;
+    for (const [k, c] of counts) if (k >= 2 && (c > modeCount || (c === modeCount && k > mode))) {
+      mode = k;
+      modeCount = c;
+    }
+    if (!mode || !lines) continue;
+    const score = Math.round((modeCount / lines) * 20) / 20;
+    if (!best || score > best.score) best = { d, score };
+  }
+  return best?.d;
+}
+
+function delimiterName(d: string): string {
+  return d === '\t' ? 'tab' : d === ';' ? 'semicolon' : d === '|' ? 'bar' : d === ',' ? 'comma' : `'${d}'`;
+}
+
+/** Builds a grid from cells, reading numbers under the conventions. */
+class CellSink {
+  readonly builder: GridBuilder;
+  readonly numbers: NumberReader;
+  private pendingRows = new Set<number>();
+
+  constructor(readonly file: string, options: NumberOptions, maxCells: number) {
+    this.builder = new GridBuilder(maxCells, () => tooManyCells(file, maxCells));
+    this.numbers = new NumberReader(options, (r, c, text) => whereAt(file, r, c, text));
+  }
+
+  /** A trimmed text cell, read as a number where it is one. */
+  text(t: string): void {
+    const b = this.builder;
+    if (t === '') return b.empty();
+    const v = this.numbers.read(t, b.row, b.col);
+    if (v === NumberReader.PENDING) {
+      this.pendingRows.add(b.row);
+      b.text(t);
+    } else if (Number.isNaN(v)) b.text(restoreText(t));
+    else if (b.inTextZone) b.number(v, t);
+    else b.number(v);
+  }
+
+  finish(): Grid {
+    const settled = this.numbers.settle();
+    const rows = this.builder.rows;
+    for (const { cell, value } of settled) {
+      if (!Number.isNaN(value)) GridBuilder.patch(rows[cell.row]!, cell.col, value, cell.text);
+    }
+    return new Grid(this.file, rows);
+  }
+}
+
+export function whereAt(file: string, r: number, c: number, text?: string): Where {
+  const w: Where = { file, cell: cellRef(r + 1, c + 1), row: r + 1, column: c + 1 };
+  if (text !== undefined) w.text = text;
+  return w;
+}
+
+/** The wide-grid sink of the byte scanner: numbers straight from bytes, the rest through CellSink. */
+class ScanGridSink implements FieldSink {
+  constructor(
+    private readonly cells: CellSink,
+    private readonly decoder: TextDecoder,
+    private readonly file: string,
+  ) {}
+
+  field(b: Uint8Array, s: number, e: number, flags: number): void {
+    while (s < e && (b[s] === 32 || b[s] === 9)) s++;
+    while (e > s && (b[e - 1] === 32 || b[e - 1] === 9)) e--;
+    const builder = this.cells.builder;
+    if (s === e) return builder.empty();
+    const numbers = this.cells.numbers;
+    const dec = numbers.decimal;
+    if (!(flags & ESCAPED)) {
+      const c0 = b[s]!;
+      if ((c0 >= 48 && c0 <= 57) || c0 === 45 || c0 === 43 || c0 === 46 || c0 === 44) {
+        const v = scanNumber(b, s, e, dec === ',' ? 44 : 46);
+        if (!Number.isNaN(v) && !(dec === undefined && numberScan.ambiguous)) {
+          if (numberScan.decimalSeen && dec === undefined) numbers.see('.', builder.row, builder.col, fieldText(b, s, e, false));
+          if (builder.inTextZone) builder.number(v, fieldText(b, s, e, false));
+          else builder.number(v);
+          return;
+        }
+      }
+    }
+    let t: string;
+    try {
+      t = fieldText(b, s, e, (flags & ESCAPED) !== 0, this.decoder).trim();
+    } catch {
+      throw new InputError(
+        'bad-encoding',
+        `file ${this.file}, cell ${columnLetters(builder.col + 1)}${builder.row + 1}: the bytes are not valid UTF-8`,
+        whereAt(this.file, builder.row, builder.col),
+        `Pass the file's encoding (for example encoding: 'windows-1252')`,
+      );
+    }
+    this.cells.text(t);
+  }
+
+  endRow(): void {
+    this.cells.builder.endRow();
+  }
+}
+
+function conventionsOf(numbers: NumberReader, delimiter: Delimiter, delimiterFrom: CsvConventions['delimiterFrom'], encoding: Encoding, bom: boolean): CsvConventions {
+  return { delimiter, delimiterFrom, encoding, bom, ...numbers.conventions() };
+}
+
+function emptyFile(file: string): never {
+  throw new InputError('empty-file', `file ${file} is empty`, { file }, 'Give a file with a table in it');
+}
+
+function findingsOf(c: CsvConventions, file: string): Finding[] {
+  const out: Finding[] = [];
+  const parts = [
+    `${delimiterName(c.delimiter)}-separated${c.delimiterFrom === 'default' ? ' (no delimiter found; one column)' : ''}`,
+    `decimal mark '${c.decimal}'${c.decimalFrom === 'data' ? ` (seen in ${c.decimalEvidence})` : c.decimalFrom === 'default' ? ' (default; no cell needed it)' : ' (as given)'}`,
+    c.thousands.length ? `thousands separator ${c.thousands.map((t) => `'${t}'`).join(', ')}` : 'no thousands separator',
+    `${c.encoding}${c.bom ? ' with a byte-order mark' : ''}`,
+  ];
+  out.push({ code: 'csv-conventions', severity: 'note', message: `file ${file} read as ${parts.join(', ')}`, where: { file } });
+  if (c.encoding === 'windows-1252') {
+    out.push({ code: 'encoding-guessed', severity: 'warning', message: `file ${file} is not UTF-8; it was read as Windows-1252. If letters look wrong, pass the file's encoding`, where: { file } });
+  }
+  return out;
+}
+
+/** Read a CSV file held in memory (bytes or text). */
+export function readCsv(input: Uint8Array | string, options: CsvOptions): CsvRead {
+  const { file } = options;
+  const limits = limitsOf(options.limits);
+  const size = typeof input === 'string' ? input.length : input.length;
+  checkBytes(size, limits.maxBytes, file);
+  const useScanner = typeof input !== 'string' && (options.parser === 'scanner' || (options.parser !== 'papaparse' && input.length > SCANNER_THRESHOLD));
+  if (useScanner) return readCsvBytes(input as Uint8Array, options);
+  let text: string;
+  let encoding: Encoding = 'utf-8';
+  let bom = false;
+  if (typeof input === 'string') {
+    text = input;
+    if (text.charCodeAt(0) === 0xfeff) {
+      text = text.slice(1);
+      bom = true;
+    }
+  } else {
+    const d = decodeBytes(input, file, options.encoding);
+    text = d.text;
+    encoding = d.encoding;
+    bom = d.bom;
+  }
+  if (text.trim() === '') emptyFile(file);
+  if (text.indexOf('\r') >= 0) text = text.replace(/\r\n?/g, '\n');
+  let delimiter = options.delimiter;
+  let delimiterFrom: CsvConventions['delimiterFrom'] = 'option';
+  if (delimiter !== undefined && !DELIMITERS.includes(delimiter)) throw badDelimiter(delimiter);
+  if (!delimiter) {
+    const found = detectDelimiter(text.slice(0, 65536));
+    delimiter = found ?? ',';
+    delimiterFrom = found ? 'data' : 'default';
+  }
+  const res = Papa.parse<string[]>(text, { delimiter, newline: '\n', quoteChar: '"', escapeChar: '"', skipEmptyLines: false });
+  const quoteError = res.errors.find((e) => e.type === 'Quotes');
+  if (quoteError) {
+    const row = (quoteError.row ?? 0) + 1;
+    const what = quoteError.code === 'MissingQuotes' ? 'a quoted field is never closed' : 'a quoted field has text after its closing quote';
+    throw new InputError('bad-quote', `file ${file}, row ${row}: ${what}`, { file, row }, 'Check the quotes on that row: a quote inside a quoted field is written twice ("")');
+  }
+  const sink = new CellSink(file, options, limits.maxCells);
+  for (const r of res.data) {
+    for (const f of r) sink.text(f.trim());
+    sink.builder.endRow();
+  }
+  const grid = sink.finish();
+  if (grid.rowCount === 0) emptyFile(file);
+  const conventions = conventionsOf(sink.numbers, delimiter, delimiterFrom, encoding, bom);
+  return { grid, conventions, findings: findingsOf(conventions, file) };
+}
+
+function badDelimiter(d: string): InputError {
+  return new InputError('bad-option', `the delimiter must be one of comma, semicolon, tab or bar; got '${d}'`);
+}
+
+/** The scanner path over bytes in memory. */
+function readCsvBytes(input: Uint8Array, options: CsvOptions): CsvRead {
+  const r = new StreamingCsv(options);
+  r.push(input);
+  return r.end();
+}
+
+/**
+ * Read a CSV file from a stream of byte chunks (a file read piece by piece, or a web
+ * `ReadableStream`), through the byte scanner.
+ */
+export async function readCsvStream(chunks: AsyncIterable<Uint8Array>, options: CsvOptions): Promise<CsvRead> {
+  const r = new StreamingCsv(options);
+  for await (const c of chunks) r.push(c);
+  return r.end();
+}
+
+/** Decodes UTF-16 chunks to UTF-8 bytes on the way in, so the scanner sees UTF-8. */
+class Transcoder {
+  private dec: TextDecoder;
+  private enc = new TextEncoder();
+  constructor(encoding: Encoding) {
+    this.dec = new TextDecoder(encoding);
+  }
+  push(c: Uint8Array): Uint8Array {
+    return this.enc.encode(this.dec.decode(c, { stream: true }));
+  }
+  end(): Uint8Array {
+    return this.enc.encode(this.dec.decode());
+  }
+}
+
+/**
+ * The streaming reader: the first 64 KiB settle the encoding and the delimiter, then every byte
+ * goes through the scanner once.
+ */
+export class StreamingCsv {
+  private head: Uint8Array[] = [];
+  private headBytes = 0;
+  private total = 0;
+  private scanner: CsvScanner | undefined;
+  private sink: CellSink | undefined;
+  private transcoder: Transcoder | undefined;
+  private encoding: Encoding = 'utf-8';
+  private bom = false;
+  private delimiter: Delimiter = ',';
+  private delimiterFrom: CsvConventions['delimiterFrom'] = 'option';
+  private readonly limits: Required<Limits>;
+
+  constructor(private readonly options: CsvOptions) {
+    this.limits = limitsOf(options.limits);
+    if (options.delimiter !== undefined && !DELIMITERS.includes(options.delimiter)) throw badDelimiter(options.delimiter);
+  }
+
+  push(chunk: Uint8Array): void {
+    this.total += chunk.length;
+    checkBytes(this.total, this.limits.maxBytes, this.options.file);
+    if (!this.scanner) {
+      this.head.push(chunk);
+      this.headBytes += chunk.length;
+      if (this.headBytes < 65536) return;
+      this.start(false);
+      return;
+    }
+    this.feed(chunk);
+  }
+
+  private feed(chunk: Uint8Array): void {
+    this.scanner!.push(this.transcoder ? this.transcoder.push(chunk) : chunk);
+  }
+
+  private start(final: boolean): void {
+    const file = this.options.file;
+    let head = concat(this.head, this.headBytes);
+    this.head = [];
+    const bom = sniffBom(head);
+    let encoding: Encoding;
+    if (bom) {
+      encoding = bom.encoding;
+      this.bom = true;
+      head = head.subarray(bom.length);
+    } else if (this.options.encoding) encoding = this.options.encoding;
+    else encoding = decodeBytes(final ? head : trimPartial(head), file).encoding;
+    this.encoding = encoding;
+    if (encoding === 'utf-16le' || encoding === 'utf-16be') this.transcoder = new Transcoder(encoding);
+    const sampleText = new TextDecoder(encoding).decode(head.subarray(0, 65536 * (this.transcoder ? 2 : 1))).replace(/\r\n?/g, '\n');
+    let delimiter = this.options.delimiter;
+    if (delimiter) this.delimiterFrom = 'option';
+    else {
+      const found = detectDelimiter(sampleText);
+      delimiter = found ?? ',';
+      this.delimiterFrom = found ? 'data' : 'default';
+    }
+    this.delimiter = delimiter;
+    this.sink = new CellSink(file, this.options, this.limits.maxCells);
+    const decoder = encoding === 'windows-1252' ? new TextDecoder('windows-1252') : new TextDecoder('utf-8', { fatal: true });
+    this.scanner = new CsvScanner(delimiter.charCodeAt(0), new ScanGridSink(this.sink, decoder, file), file);
+    this.feed(head);
+  }
+
+  end(): CsvRead {
+    const file = this.options.file;
+    if (!this.scanner) {
+      if (this.headBytes === 0) emptyFile(file);
+      this.start(true);
+    }
+    if (this.transcoder) this.scanner!.push(this.transcoder.end());
+    this.scanner!.end();
+    const grid = this.sink!.finish();
+    if (grid.rowCount === 0) emptyFile(file);
+    const conventions = conventionsOf(this.sink!.numbers, this.delimiter, this.delimiterFrom, this.encoding, this.bom);
+    return { grid, conventions, findings: findingsOf(conventions, file) };
+  }
+}
+
+function concat(parts: Uint8Array[], total: number): Uint8Array {
+  if (parts.length === 1) return parts[0]!;
+  const out = new Uint8Array(total);
+  let o = 0;
+  for (const p of parts) {
+    out.set(p, o);
+    o += p.length;
+  }
+  return out;
+}
+
+/** Drop an incomplete UTF-8 sequence at the end of a sample, so that it can be checked strictly. */
+function trimPartial(b: Uint8Array): Uint8Array {
+  let i = b.length;
+  let k = 0;
+  while (i > 0 && k < 4 && (b[i - 1]! & 0xc0) === 0x80) {
+    i--;
+    k++;
+  }
+  if (i > 0 && b[i - 1]! >= 0xc0) return b.subarray(0, i - 1);
+  return b;
+}
+
+/** A trimmed copy of a grid's kinds, for tests that compare the two parsers. */
+export function gridSignature(g: Grid): string {
+  return JSON.stringify(g.rows.map((r: GridRow, i) => Array.from(r.kinds, (k, c) => (k === EMPTY ? null : k === TEXT ? `t:${g.text(i, c)}` : g.num(i, c)))));
+}
+
+export type { DecimalMark };

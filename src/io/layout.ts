@@ -1,0 +1,581 @@
+/**
+ * Layout detection on a wide sheet: where the codes and labels are, which rows are titles,
+ * headers and notes, and which rows and columns hold the table.
+ *
+ * The key is the intermediate square: sector codes name both rows and columns. The reader
+ * looks, among the first rows and columns, for the pair (a header row, a code column) whose
+ * texts match most; that pair is the code row and code column. A neighbouring text column and
+ * row are the labels (either order), a leading column headed `unit` holds units. Rows above are
+ * titles (their words give the year, the unit scale and the price basis) or group headers
+ * (merged cells); rows below the table with text only are notes. Without any match (a use table
+ * whose product and industry codes differ), the last text row above the numbers and the first
+ * text column are taken, and the choice is reported.
+ *
+ * Every choice can be given instead, through the mapping (1-based rows and columns).
+ */
+import { InputError, type Where } from '../../engine/errors';
+import type { Finding } from '../../engine/findings';
+import type { TableMeta } from '../../engine/table';
+import { type Entry, GridBlock } from './block';
+import { EMPTY, type Grid, NUMBER, normalizeCode, normalizeLabel, TEXT } from './grid';
+import type { MappingInput } from './mapping';
+
+export interface WideStructure {
+  /** 0-based; null when absent. */
+  codeColumn: number | null;
+  labelColumn: number | null;
+  unitColumn: number | null;
+  roleColumn: number | null;
+  roleRow: number | null;
+  codeRow: number | null;
+  labelRow: number | null;
+  titleRows: number[];
+  headerRows: number[];
+  noteRows: number[];
+  meta: TableMeta;
+  /** A 'description' row above the header (matrix files). */
+  description?: string;
+  block: GridBlock;
+  findings: Finding[];
+}
+
+const MAX_LEAD_COLS = 10;
+const MAX_HEAD_ROWS = 80;
+
+const META_KEYS: Record<string, keyof TableMeta> = {
+  title: 'title',
+  currency: 'currency',
+  scale: 'scale',
+  'scale label': 'scaleLabel',
+  unit: 'scaleLabel',
+  year: 'year',
+  region: 'region',
+  'price basis': 'priceBasis',
+  prices: 'priceBasis',
+  source: 'source',
+  'output assumed': 'outputAssumed',
+  'invented data': 'invented',
+  invented: 'invented',
+};
+
+interface Pair {
+  row: number;
+  col: number;
+  /** Distinct codes that name both a column (in this row) and a row (in this column, below). */
+  score: number;
+  /** Of those, how many are not numbers (a header of numbers could be a row of data). */
+  textScore: number;
+  meanLen: number;
+  /** The first matched row below, and the first matched column to the right. */
+  firstRow: number;
+  firstCol: number;
+}
+
+function codeAt(g: Grid, r: number, c: number): string {
+  return normalizeCode(g.text(r, c));
+}
+
+/** The best (header row, code column) pairs by matched codes. */
+function matchPairs(g: Grid): Pair[] {
+  const R = g.rowCount;
+  const C = g.colCount;
+  const leadCols = Math.min(C, MAX_LEAD_COLS);
+  const headRows = Math.min(R, MAX_HEAD_ROWS);
+  const rowTexts: string[][] = [];
+  for (let h = 0; h < headRows; h++) {
+    const t: string[] = new Array(C);
+    for (let j = 0; j < C; j++) t[j] = g.kind(h, j) === EMPTY ? '' : codeAt(g, h, j);
+    rowTexts.push(t);
+  }
+  const pairs: Pair[] = [];
+  for (let c = 0; c < leadCols; c++) {
+    const rowsOf = new Map<string, number[]>();
+    for (let r = 0; r < R; r++) {
+      if (g.kind(r, c) === EMPTY) continue;
+      const t = codeAt(g, r, c);
+      if (!t) continue;
+      const l = rowsOf.get(t);
+      if (l) l.push(r);
+      else rowsOf.set(t, [r]);
+    }
+    if (rowsOf.size < 1) continue;
+    for (let h = 0; h < headRows; h++) {
+      const t = rowTexts[h]!;
+      const seen = new Set<string>();
+      let len = 0;
+      let text = 0;
+      let firstRow = Infinity;
+      let firstCol = Infinity;
+      for (let j = c + 1; j < C; j++) {
+        const s = t[j]!;
+        if (!s || seen.has(s)) continue;
+        const rs = rowsOf.get(s);
+        if (!rs) continue;
+        const below = rs.find((r) => r > h);
+        if (below === undefined) continue;
+        seen.add(s);
+        len += s.length;
+        if (g.kind(h, j) === TEXT) text++;
+        if (below < firstRow) firstRow = below;
+        if (j < firstCol) firstCol = j;
+      }
+      if (seen.size) pairs.push({ row: h, col: c, score: seen.size, textScore: text, meanLen: len / seen.size, firstRow, firstCol });
+    }
+  }
+  pairs.sort((a, b) => b.textScore - a.textScore || b.score - a.score || a.meanLen - b.meanLen || a.row - b.row || a.col - b.col);
+  return pairs;
+}
+
+function textShare(g: Grid, rows: number[], c: number): { text: number; filled: number; distinct: number; meanLen: number; spaces: number } {
+  let text = 0;
+  let filled = 0;
+  let len = 0;
+  let spaces = 0;
+  const seen = new Set<string>();
+  for (const r of rows) {
+    const k = g.kind(r, c);
+    if (k === EMPTY) continue;
+    filled++;
+    const s = normalizeCode(g.text(r, c));
+    if (k === TEXT) text++;
+    len += s.length;
+    if (/\s/.test(s)) spaces++;
+    seen.add(s);
+  }
+  return { text, filled, distinct: seen.size, meanLen: filled ? len / filled : 0, spaces };
+}
+
+/** Rows with at least two numbers. */
+function numericRows(g: Grid, from: number): number[] {
+  const out: number[] = [];
+  for (let r = from; r < g.rowCount; r++) {
+    const row = g.rows[r]!;
+    let n = 0;
+    for (let c = 0; c < row.kinds.length && n < 2; c++) if (row.kinds[c] === NUMBER) n++;
+    if (n >= 2) out.push(r);
+  }
+  return out;
+}
+
+function given(v: number | null | undefined, what: string, max: number): number | null | undefined {
+  if (v === undefined) return undefined;
+  if (v === null) return null;
+  if (!Number.isInteger(v) || v < 1 || v > max) {
+    throw new InputError('bad-mapping', `mapping ${what} is ${v}, outside the sheet (1 to ${max})`, {}, `Give a ${what.endsWith('Row') ? 'row' : 'column'} number within the sheet`);
+  }
+  return v - 1;
+}
+
+/** Detect the structure of a wide sheet (or apply the one given in the mapping). */
+export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStructure {
+  const R = g.rowCount;
+  const C = g.colCount;
+  const findings: Finding[] = [];
+  const gw = (extra: Partial<Where> = {}): Where => {
+    const w: Where = { file: g.file, ...extra };
+    if (g.sheet !== undefined) w.sheet = g.sheet;
+    return w;
+  };
+  if (R === 0 || C === 0) throw new InputError('empty-file', `file ${g.file}${g.sheet ? `, sheet '${g.sheet}'` : ''} has no cells`, gw());
+
+  let codeColumn = given(mapping.codeColumn, 'codeColumn', C);
+  let codeRow = given(mapping.codeRow, 'codeRow', R);
+  let labelColumn = given(mapping.labelColumn, 'labelColumn', C);
+  let labelRow = given(mapping.labelRow, 'labelRow', R);
+  let unitColumn = given(mapping.unitColumn, 'unitColumn', C);
+
+  if (codeColumn === undefined || codeRow === undefined) {
+    const pairs = matchPairs(g);
+    const fits = (p: Pair) => (codeColumn === undefined || p.col === codeColumn) && (codeRow === undefined || p.row === codeRow);
+    let best = pairs.find(fits);
+    if (best) {
+      // A neighbouring pair in the header zone with nearly as many matches and shorter texts is
+      // the code pair (codes rather than labels); the first is then the label pair.
+      const b0 = best;
+      const partners = pairs.filter((p) => fits(p) && p !== b0 && p.score >= b0.score * 0.9 && p.row < b0.firstRow && p.col < b0.firstCol && Math.abs(p.row - b0.row) <= 3 && Math.abs(p.col - b0.col) <= 3 && p.row !== b0.row && p.col !== b0.col);
+      const shorter = partners.filter((p) => p.meanLen < b0.meanLen).sort((a, b) => a.meanLen - b.meanLen || b.score - a.score)[0];
+      if (shorter) {
+        best = shorter;
+        if (labelColumn === undefined) labelColumn = b0.col;
+        if (labelRow === undefined) labelRow = b0.row;
+      }
+      // A nearby header row whose first cell says 'code' is the code row (the pair's row is then the labels).
+      if (codeRow === undefined) {
+        for (let r = Math.max(0, best.row - 3); r < Math.min(best.firstRow, best.row + 4); r++) {
+          if (r === best.row) continue;
+          let c = 0;
+          while (c < Math.min(C, MAX_LEAD_COLS) && g.kind(r, c) === EMPTY) c++;
+          if (c < Math.min(C, MAX_LEAD_COLS) && /^codes?$/i.test(codeAt(g, r, c))) {
+            if (labelRow === undefined) labelRow = best.row;
+            codeRow = r;
+            break;
+          }
+        }
+      }
+      if (codeColumn === undefined) codeColumn = best.col;
+      if (codeRow === undefined) codeRow = best.row;
+    } else {
+      // No code names both a row and a column: fall back on position.
+      const nr = numericRows(g, 0);
+      if (!nr.length) {
+        throw new InputError('no-numbers', `file ${g.file}${g.sheet ? `, sheet '${g.sheet}'` : ''} has no rows of numbers, so no table was found`, gw(), 'Check that this is the right file and sheet; numbers stored as text with a different decimal mark need the decimal option');
+      }
+      const first = nr[0]!;
+      // A header row whose first cell says 'code' is the code row (as the writers write it).
+      if (codeRow === undefined) {
+        for (let r = 0; r < Math.min(first, MAX_HEAD_ROWS); r++) {
+          for (let c = 0; c < Math.min(C, MAX_LEAD_COLS); c++) {
+            if (g.kind(r, c) !== EMPTY && /^codes?$/i.test(codeAt(g, r, c))) {
+              codeRow = r;
+              if (codeColumn === undefined) codeColumn = c;
+              break;
+            }
+            if (g.kind(r, c) !== EMPTY) break;
+          }
+          if (codeRow !== undefined) break;
+        }
+      }
+      if (codeRow === undefined) {
+        codeRow = null;
+        for (let r = first - 1; r >= 0; r--) {
+          const row = g.rows[r]!;
+          let t = 0;
+          for (let c = 0; c < row.kinds.length; c++) if (row.kinds[c] !== EMPTY) t++;
+          if (t >= 2) {
+            codeRow = r;
+            break;
+          }
+        }
+      }
+      if (codeColumn === undefined) {
+        codeColumn = null;
+        const body = nr.slice(0, 200);
+        for (let c = 0; c < Math.min(C, MAX_LEAD_COLS); c++) {
+          const s = textShare(g, body, c);
+          if (s.filled >= body.length * 0.5 && s.distinct >= s.filled * 0.9 && s.text >= s.filled * 0.5) {
+            codeColumn = c;
+            break;
+          }
+        }
+      }
+      findings.push({
+        code: 'layout-by-position',
+        severity: 'warning',
+        message: `file ${g.file}${g.sheet ? `, sheet '${g.sheet}'` : ''}: no code names both a row and a column, so the ${codeRow !== null ? `header row ${codeRow + 1}` : 'header row'} and ${codeColumn !== null ? `column ${codeColumn + 1}` : 'code column'} were chosen by position; check the mapping`,
+        where: gw(),
+      });
+    }
+  }
+
+  const headTop = codeRow ?? -1;
+  // Body rows for the partner search: rows below the code row with a code.
+  const probeRows: number[] = [];
+  for (let r = headTop + 1; r < R && probeRows.length < 400; r++) if (codeColumn !== null && g.kind(r, codeColumn!) !== EMPTY) probeRows.push(r);
+
+  // The first data column: the first column right of the leading ones with a header code.
+  const firstCodeCol = (() => {
+    if (codeRow === null) return (codeColumn ?? -1) + 1;
+    for (let j = (codeColumn ?? -1) + 1; j < C; j++) if (g.kind(codeRow!, j) !== EMPTY && !/^(codes?|labels?|units?|names?|titles?|descriptions?)$/i.test(codeAt(g, codeRow!, j))) {
+      const numbersBelow = probeRows.slice(0, 50).some((r) => g.kind(r, j) === NUMBER);
+      const textBelow = probeRows.slice(0, 50).filter((r) => g.kind(r, j) === TEXT).length;
+      if (numbersBelow || textBelow < Math.max(1, probeRows.slice(0, 50).length * 0.5)) return j;
+    }
+    return C;
+  })();
+
+  if (labelColumn === undefined) {
+    labelColumn = null;
+    let bestScore = 0;
+    for (let c = 0; c < Math.min(firstCodeCol, MAX_LEAD_COLS); c++) {
+      if (c === codeColumn) continue;
+      const s = textShare(g, probeRows, c);
+      if (!probeRows.length || s.text < probeRows.length * 0.5) continue;
+      if (codeRow !== null && /^units?$|^unit of measure/i.test(codeAt(g, codeRow, c))) continue;
+      const score = s.text / probeRows.length + (codeColumn !== null && Math.abs(c - codeColumn) === 1 ? 0.1 : 0) + s.distinct / Math.max(1, s.filled) * 0.2;
+      if (score > bestScore) {
+        bestScore = score;
+        labelColumn = c;
+      }
+    }
+  }
+  if (unitColumn === undefined) {
+    unitColumn = null;
+    for (let c = 0; c < Math.min(firstCodeCol, MAX_LEAD_COLS); c++) {
+      if (c === codeColumn || c === labelColumn) continue;
+      for (const h of [codeRow, labelRow].filter((x): x is number => typeof x === 'number')) {
+        if (/^units?$|^unit of measure|^units? \(/i.test(codeAt(g, h, c))) unitColumn = c;
+      }
+    }
+  }
+
+  // A column headed 'role' (and a row whose first cell is 'role') carry roles written in the sheet.
+  let roleColumn: number | null = null;
+  for (let c = 0; c < Math.min(firstCodeCol, MAX_LEAD_COLS); c++) {
+    if (c === codeColumn || c === labelColumn || c === unitColumn) continue;
+    for (const h of [codeRow, labelRow].filter((x): x is number => typeof x === 'number')) if (/^roles?$/i.test(codeAt(g, h, c))) roleColumn = c;
+  }
+  const leadMax = Math.max(codeColumn ?? -1, labelColumn ?? -1, unitColumn ?? -1, roleColumn ?? -1);
+  // Data columns: right of the leading ones.
+  const dataCols: number[] = [];
+  for (let j = leadMax + 1; j < C; j++) dataCols.push(j);
+
+  if (labelRow === undefined) {
+    labelRow = null;
+    if (codeRow !== null) {
+      const codeCols = dataCols.filter((j) => g.kind(codeRow!, j) !== EMPTY);
+      let bestD = Infinity;
+      for (let h = Math.max(0, codeRow - 3); h <= Math.min(R - 1, codeRow + 3); h++) {
+        if (h === codeRow) continue;
+        if (h > codeRow && probeRows.length && h >= probeRows[0]! && g.kind(h, codeColumn ?? 0) !== EMPTY) continue;
+        if (/^roles?$/i.test(codeAt(g, h, codeColumn ?? 0))) continue;
+        let text = 0;
+        let nums = 0;
+        for (const j of codeCols) {
+          if (g.kind(h, j) === NUMBER) nums++;
+          else if (g.mergedText(h, j) && g.kind(h, j) !== NUMBER) text++;
+        }
+        if (codeCols.length && text >= codeCols.length * 0.5 && nums <= codeCols.length * 0.1) {
+          const d = Math.abs(h - codeRow);
+          if (d < bestD) {
+            bestD = d;
+            labelRow = h;
+          }
+        }
+      }
+    }
+  }
+
+  // Codes or labels? If the code column reads like labels and the label column like codes, swap.
+  if (mapping.codeColumn === undefined && mapping.labelColumn === undefined && codeColumn !== null && labelColumn !== null) {
+    const a = textShare(g, probeRows, codeColumn);
+    const b = textShare(g, probeRows, labelColumn);
+    if (a.meanLen > b.meanLen * 1.5 && a.spaces > a.filled * 0.5 && b.spaces < b.filled * 0.2 && b.distinct >= b.filled * 0.95) {
+      [codeColumn, labelColumn] = [labelColumn, codeColumn];
+    }
+  }
+  if (mapping.codeRow === undefined && mapping.labelRow === undefined && codeRow !== null && labelRow !== null) {
+    const lens = (h: number) => {
+      let len = 0;
+      let n = 0;
+      let sp = 0;
+      for (const j of dataCols) {
+        const t = codeAt(g, h, j);
+        if (!t) continue;
+        n++;
+        len += t.length;
+        if (/\s/.test(t)) sp++;
+      }
+      return { mean: n ? len / n : 0, sp, n };
+    };
+    const a = lens(codeRow);
+    const b = lens(labelRow);
+    if (a.mean > b.mean * 1.5 && a.sp > a.n * 0.5 && b.sp < b.n * 0.2) [codeRow, labelRow] = [labelRow, codeRow];
+  }
+
+  let roleRow: number | null = null;
+  if (codeRow !== null) {
+    const kc = codeColumn ?? labelColumn ?? 0;
+    for (let h = Math.max(0, codeRow - 3); h <= Math.min(R - 1, codeRow + 3); h++) if (h !== codeRow && h !== labelRow && /^roles?$/i.test(codeAt(g, h, kc))) roleRow = h;
+  }
+  const headerTop = Math.min(codeRow ?? Infinity, labelRow ?? Infinity, roleRow ?? Infinity);
+  const headerBottom = Math.max(codeRow ?? -1, labelRow ?? -1, roleRow ?? -1);
+  const keyCol = codeColumn ?? labelColumn;
+
+  // Rows: body rows have a code (or label) and at least one cell in the data columns, or a code
+  // that names a column. Text-only rows after the table are notes.
+  const colCodes = new Set<string>();
+  if (codeRow !== null) for (const j of dataCols) {
+    const t = codeAt(g, codeRow, j);
+    if (t) colCodes.add(t);
+  }
+  if (labelRow !== null) for (const j of dataCols) {
+    const t = normalizeCode(g.mergedText(labelRow, j));
+    if (t) colCodes.add(t);
+  }
+  const rowEntries: Entry[] = [];
+  const noteRows: number[] = [];
+  const notes: string[] = [];
+  const unlabelled: number[] = [];
+  for (let r = headerBottom + 1; r < R; r++) {
+    if (g.isEmptyRow(r)) continue;
+    const code = codeColumn !== null ? codeAt(g, r, codeColumn) : '';
+    const label = labelColumn !== null ? normalizeLabel(g.text(r, labelColumn)) : '';
+    let data = 0;
+    const row = g.rows[r]!;
+    for (let j = leadMax + 1; j < row.kinds.length; j++) if (row.kinds[j] !== EMPTY) data++;
+    const key = code || normalizeCode(label);
+    if (!key) {
+      if (data > 0 && [...Array(row.kinds.length).keys()].some((j) => j > leadMax && row.kinds[j] === NUMBER)) unlabelled.push(r);
+      else {
+        noteRows.push(r);
+        notes.push(rowText(g, r));
+      }
+      continue;
+    }
+    if (data === 0 && !colCodes.has(key)) {
+      // A row of text alone: a heading inside the table, or a note below it (decided below).
+      noteRows.push(r);
+      notes.push(rowText(g, r));
+      continue;
+    }
+    let unit: string | undefined;
+    if (unitColumn !== null) {
+      const u = normalizeLabel(g.text(r, unitColumn));
+      if (u) unit = u;
+    }
+    const e: Entry = { code: key, label: label || key, pos: r, at: r + 1, where: g.where(r, keyCol ?? 0) };
+    if (roleColumn !== null) {
+      const role = codeAt(g, r, roleColumn).toLowerCase();
+      if (role) e.role = role;
+    }
+    if (unit !== undefined) e.unit = unit;
+    else {
+      const m = /[[(]([^\])[(]+)[\])]\s*$/.exec(label || code);
+      if (m) e.unitInLabel = m[1]!.trim();
+    }
+    rowEntries.push(e);
+  }
+  // Notes must come after the last body row; text rows before it are headings.
+  const lastBody = rowEntries.length ? rowEntries[rowEntries.length - 1]!.pos : -1;
+  const keptNotes: number[] = [];
+  const keptText: string[] = [];
+  noteRows.forEach((r, i) => {
+    if (r > lastBody) {
+      keptNotes.push(r);
+      keptText.push(notes[i]!);
+    }
+  });
+  for (const r of unlabelled) {
+    findings.push({
+      code: 'row-without-code',
+      severity: 'warning',
+      message: `file ${g.file}${g.sheet ? `, sheet '${g.sheet}'` : ''}: row ${r + 1} has numbers but no code or label, so it is not read; give it a code, or set it in the mapping`,
+      where: gw({ row: r + 1 }),
+    });
+  }
+
+  const colEntries: Entry[] = [];
+  for (const j of dataCols) {
+    const code = codeRow !== null ? codeAt(g, codeRow, j) : '';
+    const label = labelRow !== null ? normalizeLabel(g.mergedText(labelRow, j)) : '';
+    const key = code || normalizeCode(label);
+    if (!key) {
+      const hasNumbers = rowEntries.some((e) => g.kind(e.pos, j) === NUMBER);
+      if (hasNumbers) {
+        const e = rowEntries.find((x) => g.kind(x.pos, j) === NUMBER)!;
+        findings.push({
+          code: 'column-without-code',
+          severity: 'warning',
+          message: `file ${g.file}${g.sheet ? `, sheet '${g.sheet}'` : ''}: column ${j + 1} has numbers (such as cell ${g.where(e.pos, j).cell}) but no code or label in its header, so it is not read; give it a code, or set it in the mapping`,
+          where: g.where(e.pos, j),
+        });
+      }
+      continue;
+    }
+    const ce: Entry = { code: key, label: label || key, pos: j, at: j + 1, where: g.where(codeRow ?? labelRow ?? 0, j) };
+    if (roleRow !== null) {
+      const role = codeAt(g, roleRow, j).toLowerCase();
+      if (role) ce.role = role;
+    }
+    colEntries.push(ce);
+  }
+
+  // Titles, group headers, key/value rows above the header.
+  const titleRows: number[] = [];
+  const headerRows: number[] = [];
+  const meta: TableMeta = {};
+  const titleTexts: string[] = [];
+  let description: string | undefined;
+  for (let r = 0; r < Math.min(headerTop === Infinity ? 0 : headerTop, R); r++) {
+    if (g.isEmptyRow(r)) continue;
+    const row = g.rows[r]!;
+    const filled: number[] = [];
+    for (let c = 0; c < row.kinds.length; c++) if (row.kinds[c] !== EMPTY) filled.push(c);
+    const inData = filled.filter((c) => c > leadMax).length;
+    const key = filled.length === 2 ? g.text(r, filled[0]!).trim().replace(/:$/, '').toLowerCase() : '';
+    if (key === 'description') {
+      titleRows.push(r);
+      description = g.text(r, filled[1]!).trim();
+      continue;
+    }
+    const kv = key ? META_KEYS[key] : undefined;
+    if (kv) {
+      titleRows.push(r);
+      setMeta(meta, kv, g.text(r, filled[1]!).trim());
+      continue;
+    }
+    if (inData >= 2 || g.merges.some((m) => m.top === r && m.right > m.left)) headerRows.push(r);
+    else {
+      titleRows.push(r);
+      titleTexts.push(rowText(g, r));
+    }
+  }
+  for (const m of g.merges) if (m.top > headerTop && m.top < headerBottom && !headerRows.includes(m.top) && m.top !== codeRow && m.top !== labelRow) headerRows.push(m.top);
+  const fromTitles = metaFromTitles(titleTexts);
+  for (const [k, v] of Object.entries(fromTitles)) if ((meta as Record<string, unknown>)[k] === undefined) (meta as Record<string, unknown>)[k] = v;
+  if (keptText.length) {
+    const src = keptText.find((t) => /^sources?\s*:/i.test(t));
+    if (src && meta.source === undefined) meta.source = src.replace(/^sources?\s*:\s*/i, '');
+    meta.notes = keptText.filter((t) => t !== src);
+    if (!meta.notes.length) delete meta.notes;
+  }
+
+  if (!rowEntries.length) throw new InputError('no-rows', `file ${g.file}${g.sheet ? `, sheet '${g.sheet}'` : ''}: no table rows were found below the header${codeRow !== null ? ` (row ${codeRow + 1})` : ''}`, gw(), 'Check the file, or give codeRow and codeColumn in the mapping');
+  if (!colEntries.length) throw new InputError('no-columns', `file ${g.file}${g.sheet ? `, sheet '${g.sheet}'` : ''}: no table columns with codes were found${codeRow !== null ? ` in row ${codeRow + 1}` : ''}`, gw(), 'Check the file, or give codeRow and codeColumn in the mapping');
+
+  const block = new GridBlock(g, rowEntries, colEntries);
+  const out: WideStructure = {
+    codeColumn,
+    labelColumn,
+    unitColumn,
+    roleColumn,
+    roleRow,
+    codeRow,
+    labelRow,
+    titleRows,
+    headerRows: headerRows.sort((a, b) => a - b),
+    noteRows: keptNotes,
+    meta,
+    block,
+    findings,
+  };
+  if (description !== undefined) out.description = description;
+  return out;
+}
+
+function rowText(g: Grid, r: number): string {
+  const parts: string[] = [];
+  const row = g.rows[r]!;
+  for (let c = 0; c < row.kinds.length; c++) if (row.kinds[c] !== EMPTY) parts.push(g.text(r, c).trim());
+  return parts.join(' ');
+}
+
+function setMeta(meta: TableMeta, key: keyof TableMeta, value: string): void {
+  const m = meta as Record<string, unknown>;
+  if (key === 'scale' || key === 'year') {
+    const v = Number(value);
+    if (Number.isFinite(v)) m[key] = v;
+  } else if (key === 'outputAssumed' || key === 'invented') m[key] = /^(true|yes|1)$/i.test(value);
+  else m[key] = value;
+}
+
+/** Year, unit scale and price basis from title lines. */
+export function metaFromTitles(lines: string[]): TableMeta {
+  const meta: TableMeta = {};
+  if (!lines.length) return meta;
+  meta.title = lines[0]!;
+  const all = lines.join(' ');
+  const scale = /\b(thousands|millions|billions)\b/i.exec(all);
+  if (scale) {
+    const w = scale[1]!.toLowerCase();
+    meta.scaleLabel = w;
+    meta.scale = w === 'thousands' ? 1e3 : w === 'millions' ? 1e6 : 1e9;
+  }
+  const year = /\b(19[0-9]{2}|20[0-9]{2})\b/.exec(all);
+  if (year) meta.year = Number(year[1]);
+  const price = /\b(basic|producers['’]?|purchasers['’]?|market)\s+prices?\b/i.exec(all);
+  if (price) meta.priceBasis = price[0]!.toLowerCase().replace('’', "'");
+  const cur = /\b(USD|EUR|GBP|JPY|CNY|AUD|CAD|CHF|SEK|NOK|DKK|NZD|ZAR|INR|BRL|MXN|KRW)\b/.exec(all);
+  if (cur) meta.currency = cur[1]!;
+  return meta;
+}

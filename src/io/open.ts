@@ -1,0 +1,110 @@
+/**
+ * Opening a file by its content: an XLSX workbook (a zip archive), JSON, or CSV text; and, for
+ * a sheet, whether it is wide (a table) or long (one line per cell). Browser-safe: it takes
+ * bytes and a file name, never a path.
+ */
+import { InputError } from '../../engine/errors';
+import type { Finding } from '../../engine/findings';
+import { type CsvOptions, readCsv } from './csv';
+import { EMPTY, type Grid, normalizeCode } from './grid';
+import { readTableJson } from './json';
+import { type LongOptions, readLongGrid } from './long';
+import type { MappingInput } from './mapping';
+import { type ReadTableOptions, readTable, type TableRead } from './tables';
+import { readXlsx } from './xlsx';
+
+export type FileKind = 'csv' | 'xlsx' | 'json';
+
+/** What a file holds, from its first bytes (and its name when the bytes do not say). */
+export function sniffFile(bytes: Uint8Array, name: string): FileKind {
+  if (bytes.length >= 2 && bytes[0] === 0x50 && bytes[1] === 0x4b) return 'xlsx';
+  if (bytes.length >= 4 && bytes[0] === 0xd0 && bytes[1] === 0xcf && bytes[2] === 0x11 && bytes[3] === 0xe0) return 'xlsx';
+  let i = 0;
+  if (bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf) i = 3;
+  while (i < bytes.length && i < 4096 && (bytes[i] === 32 || bytes[i] === 9 || bytes[i] === 10 || bytes[i] === 13)) i++;
+  if (bytes[i] === 0x7b || (bytes[i] === 0x5b && /\.json$/i.test(name))) return 'json';
+  if (/\.xlsx$/i.test(name) && bytes.length > 0) return 'xlsx';
+  return 'csv';
+}
+
+export interface GridOptions extends CsvOptions {
+  /** XLSX: a sheet name or a 1-based index. */
+  sheet?: string | number;
+}
+
+export interface GridRead {
+  grid: Grid;
+  kind: 'csv' | 'xlsx';
+  conventions: Record<string, unknown>;
+  /** XLSX: every sheet name. */
+  sheets?: string[];
+  findings: Finding[];
+}
+
+/** Read a CSV or XLSX file into a grid. */
+export async function readGrid(bytes: Uint8Array, options: GridOptions): Promise<GridRead> {
+  const kind = sniffFile(bytes, options.file);
+  if (kind === 'json') throw new InputError('not-a-sheet', `file ${options.file} holds JSON, not a sheet of cells`, { file: options.file }, 'Read it as a JSON table');
+  if (kind === 'xlsx') {
+    const x = await readXlsx(bytes, options);
+    return { grid: x.grid, kind, conventions: { ...x.conventions }, sheets: x.sheets, findings: x.findings };
+  }
+  const c = readCsv(bytes, options);
+  return { grid: c.grid, kind, conventions: { ...c.conventions }, findings: c.findings };
+}
+
+/**
+ * Whether a sheet is long (one line per cell: codes repeat down the first two columns, a few
+ * columns in all) rather than wide.
+ */
+export function guessShape(grid: Grid): 'wide' | 'long' {
+  if (grid.colCount > 20 || grid.rowCount < 3) return 'wide';
+  const n = Math.min(grid.rowCount, 5000);
+  const a = new Set<string>();
+  const b = new Set<string>();
+  const pairs = new Set<string>();
+  let lines = 0;
+  let numeric = false;
+  for (let r = 0; r < n; r++) {
+    const row = grid.rows[r]!;
+    if (row.kinds.length < 3 || row.kinds[0] === EMPTY || row.kinds[1] === EMPTY) continue;
+    lines++;
+    const x = normalizeCode(grid.text(r, 0));
+    const y = normalizeCode(grid.text(r, 1));
+    a.add(x);
+    b.add(y);
+    pairs.add(`${x}\u0000${y}`);
+    for (let c = 2; c < row.kinds.length; c++) if (row.kinds[c] === 1) numeric = true;
+  }
+  if (lines < 3 || !numeric) return 'wide';
+  return a.size <= lines * 0.8 && b.size <= lines * 0.8 && pairs.size >= lines * 0.9 ? 'long' : 'wide';
+}
+
+export interface ReadFileOptions extends GridOptions, ReadTableOptions {
+  /** Wide or long (default: found from the sheet; a mapping's shape also counts). */
+  shape?: 'wide' | 'long';
+  /** Long files: fields and labels (see readLongCsv). */
+  long?: Omit<LongOptions, 'file'>;
+  mapping?: MappingInput;
+}
+
+/** Read a table from a file's bytes: JSON as written by the JSON writer, or a CSV or XLSX sheet, wide or long. */
+export async function readTableFile(bytes: Uint8Array, options: ReadFileOptions): Promise<TableRead & { shape: 'wide' | 'long' | 'json' }> {
+  const kind = sniffFile(bytes, options.file);
+  if (kind === 'json') {
+    const table = readTableJson(new TextDecoder().decode(bytes), options.file);
+    return { table, mapping: { format: 'ripplewise-layout', version: 1, kind: 'flows', shape: 'wide', file: options.file, rows: [], columns: [], output: { from: 'column', code: 'x' }, blanks: 'error' }, findings: [], shape: 'json' };
+  }
+  const g = await readGrid(bytes, options);
+  const shape = options.shape ?? options.mapping?.shape ?? guessShape(g.grid);
+  if (shape === 'long') {
+    const lo: Omit<LongOptions, 'file'> = { ...(options.long ?? {}) };
+    if (options.mapping) lo.mapping = options.mapping;
+    const long = readLongGrid(g.grid, lo);
+    const r = readTable(long, options);
+    return { ...r, findings: [...g.findings, ...r.findings], shape };
+  }
+  const r = readTable(g.grid, options);
+  r.mapping.conventions = g.conventions;
+  return { ...r, findings: [...g.findings, ...r.findings], shape };
+}

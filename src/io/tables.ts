@@ -1,0 +1,146 @@
+/**
+ * The table readers: a grid (a wide sheet) or a long file to the engine's table, to a labelled
+ * matrix, or to the detected layout alone (for a user to confirm or edit before reading).
+ */
+import { InputError } from '../../engine/errors';
+import type { Finding } from '../../engine/findings';
+import type { Matrix } from '../../engine/linalg/matrix';
+import type { Axis, Table } from '../../engine/table';
+import { type AssembleOptions, assembleMatrix, assembleTable, classify, mappingOf } from './assemble';
+import type { Block } from './block';
+import { Grid } from './grid';
+import { detectStructure, type WideStructure } from './layout';
+import type { LongTable } from './long';
+import type { LayoutMapping, MappingInput, TableKind } from './mapping';
+
+/** What a table reader reads: a grid (a wide sheet, from CSV or XLSX) or a long file already read. */
+export type TableSource = Grid | LongTable;
+
+export interface ReadTableOptions {
+  /** `flows` (default) or `coefficients` (technical coefficients A, with or without total output). */
+  kind?: 'flows' | 'coefficients';
+  /** A mapping (as reported by a reader, or a part of one) that overrides the detection. */
+  mapping?: MappingInput;
+  /** Empty cells in the blocks read: an error (default) or zero. */
+  blanks?: 'error' | 'zero';
+  /** Texts read as zero in the blocks, such as '-' or '..'. */
+  zeroTexts?: string[];
+  /** Code and label patterns (see patterns.ts); also accepted in the mapping. */
+  patterns?: MappingInput['patterns'];
+}
+
+export interface TableRead {
+  table: Table;
+  /** How the file was read; pass it back as `mapping` to read it the same way. */
+  mapping: LayoutMapping;
+  findings: Finding[];
+}
+
+export interface MatrixRead {
+  rows: Axis;
+  cols: Axis;
+  matrix: Matrix;
+  title?: string;
+  description?: string;
+  notes?: string[];
+  mapping: LayoutMapping;
+  findings: Finding[];
+}
+
+export interface SourceBlock {
+  block: Block;
+  meta: Table['meta'];
+  description?: string;
+  extra: Partial<LayoutMapping>;
+  findings: Finding[];
+}
+
+function structureFields(s: WideStructure): Partial<LayoutMapping> {
+  const one = (x: number | null) => (x === null ? null : x + 1);
+  return {
+    shape: 'wide',
+    codeColumn: one(s.codeColumn),
+    labelColumn: one(s.labelColumn),
+    unitColumn: one(s.unitColumn),
+    codeRow: one(s.codeRow),
+    labelRow: one(s.labelRow),
+    titleRows: s.titleRows.map((r) => r + 1),
+    headerRows: s.headerRows.map((r) => r + 1),
+    noteRows: s.noteRows.map((r) => r + 1),
+  };
+}
+
+/** The block of a source, with what the layout detection found. */
+export function sourceBlock(source: TableSource, mapping?: MappingInput): SourceBlock {
+  if (source instanceof Grid) {
+    const s = detectStructure(source, mapping);
+    const sb: SourceBlock = { block: s.block, meta: s.meta, extra: structureFields(s), findings: s.findings };
+    if (s.description !== undefined) sb.description = s.description;
+    return sb;
+  }
+  if (!source || typeof source !== 'object' || !('block' in source)) {
+    throw new InputError('bad-source', 'a table reader needs a grid (from readCsv or readXlsx) or a long file (from readLongCsv)');
+  }
+  const { conventions, ...fields } = source.mapping;
+  return { block: source.block, meta: {}, extra: { ...fields, conventions: conventions ?? {} }, findings: [...source.findings] };
+}
+
+function optionsOf(kind: TableKind, options: ReadTableOptions): AssembleOptions {
+  const o: AssembleOptions = { kind };
+  if (options.mapping) o.mapping = options.mapping;
+  const blanks = options.blanks ?? options.mapping?.blanks;
+  if (blanks) o.blanks = blanks;
+  const zt = options.zeroTexts ?? options.mapping?.zeroTexts;
+  if (zt) o.zeroTexts = zt;
+  const p = options.patterns ?? options.mapping?.patterns;
+  if (p) o.patterns = p;
+  return o;
+}
+
+function kindOf(options: ReadTableOptions): 'flows' | 'coefficients' {
+  const k = options.kind ?? options.mapping?.kind ?? 'flows';
+  if (k === 'make' || k === 'use') throw new InputError('bad-option', `a ${k} table is read with its partner by readSupplyUse, not as a symmetric table`);
+  if (k === 'matrix') throw new InputError('bad-option', 'a plain matrix is read by readMatrix');
+  if (k !== 'flows' && k !== 'coefficients') throw new InputError('bad-option', `kind must be 'flows' or 'coefficients'; got '${String(k)}'`);
+  return k;
+}
+
+/**
+ * Read a symmetric input-output table (intermediate flows with final demand, value added,
+ * imports, total output and satellites; or technical coefficients with or without outputs).
+ */
+export function readTable(source: TableSource, options: ReadTableOptions = {}): TableRead {
+  const kind = kindOf(options);
+  const sb = sourceBlock(source, options.mapping);
+  const r = assembleTable(sb.block, optionsOf(kind, options), sb.meta, sb.extra);
+  return { table: r.table, mapping: r.mapping, findings: [...sb.findings, ...r.findings] };
+}
+
+/** Read a plain labelled matrix (such as total requirements): every row and column that is not a total or ignored. */
+export function readMatrix(source: TableSource, options: Omit<ReadTableOptions, 'kind'> = {}): MatrixRead {
+  const sb = sourceBlock(source, options.mapping);
+  const r = assembleMatrix(sb.block, optionsOf('matrix', options), sb.extra);
+  const out: MatrixRead = { rows: r.rows, cols: r.cols, matrix: r.matrix, mapping: r.mapping, findings: [...sb.findings, ...r.findings] };
+  if (sb.meta.title !== undefined) out.title = sb.meta.title;
+  if (sb.description !== undefined) out.description = sb.description;
+  if (sb.meta.notes) out.notes = sb.meta.notes;
+  return out;
+}
+
+/**
+ * The layout a reader would use, without reading the cells (so it works even where a cell is
+ * bad): for a user to confirm or edit, then pass back as `mapping`.
+ */
+export function detectLayout(source: TableSource, options: ReadTableOptions & { kind?: TableKind } = {}): { mapping: LayoutMapping; findings: Finding[] } {
+  const kind = options.kind ?? options.mapping?.kind ?? 'flows';
+  const sb = sourceBlock(source, options.mapping);
+  const o = optionsOf(kind, options);
+  const c = classify(sb.block, o);
+  const mapping = mappingOf(sb.block, c, kind, o, { ...sb.extra, meta: { ...sb.meta, ...(options.mapping?.meta ?? {}) } });
+  const outCol = c.colRoles.lastIndexOf('output');
+  const outRow = c.rowRoles.lastIndexOf('output');
+  if (outCol >= 0) mapping.output = { from: 'column', code: sb.block.cols[outCol]!.code };
+  else if (outRow >= 0) mapping.output = { from: 'row', code: sb.block.rows[outRow]!.code };
+  else mapping.output = { from: kind === 'coefficients' ? 'assumed' : 'row-sums' };
+  return { mapping, findings: [...sb.findings, ...c.findings] };
+}
