@@ -116,7 +116,11 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       if (!plain && P.finalDemand.label(stripTotal(e.label))) r.alt = 'final-demand';
       return r;
     }
-    if (rowCodes.has(e.code)) return { role: 'sector', why: 'its code names a row too' };
+    if (rowCodes.has(e.code)) {
+      // A code that names a row too is a sector, unless it looks like a total and the data say it is one.
+      if ((m = P.totals.code(e.code))) return { role: 'total', why: `code matches ${m}`, alt: 'sector' };
+      return { role: 'sector', why: 'its code names a row too' };
+    }
     if ((m = P.totals.code(e.code))) {
       const r: RoleWhy<ColumnRole> = { role: 'total', why: `code matches ${m}` };
       if (!plain && P.finalDemand.label(stripTotal(e.label))) r.alt = 'final-demand';
@@ -150,7 +154,10 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       if (alt) r.alt = alt;
       return r;
     }
-    if (colCodes.has(e.code)) return { role: 'sector', why: 'its code names a column too' };
+    if (colCodes.has(e.code)) {
+      if ((m = P.totals.code(e.code))) return { role: 'total', why: `code matches ${m}`, alt: 'sector' };
+      return { role: 'sector', why: 'its code names a column too' };
+    }
     if ((m = P.totals.code(e.code))) {
       const r: RoleWhy<RowRole> = { role: 'total', why: `code matches ${m}` };
       const alt = altOf(e.label);
@@ -172,7 +179,27 @@ export function classify(block: Block, options: AssembleOptions): Classified {
   const cr = block.cols.map(colRole);
   const rr = block.rows.map(rowRole);
 
-  // Position for what is left.
+  // Position for what is left. In a symmetric table a code that names no row (or no column)
+  // cannot be a sector: after the sectors it is final demand (or value added).
+  const symmetric = kind === 'flows' || kind === 'coefficients';
+  if (symmetric) {
+    block.cols.forEach((e, j) => {
+      const x = cr[j]!;
+      if (x.role === undefined && !rowCodes.has(e.code) && block.cols.slice(0, j).some((f) => rowCodes.has(f.code))) {
+        x.role = 'final-demand';
+        x.why = 'its code names no row, after the sector columns';
+      }
+    });
+    let afterOutputRow = false;
+    block.rows.forEach((e, i) => {
+      const x = rr[i]!;
+      if (x.role === 'output') afterOutputRow = true;
+      if (x.role === undefined && !colCodes.has(e.code) && block.rows.slice(0, i).some((f) => colCodes.has(f.code))) {
+        x.role = afterOutputRow ? 'satellite' : 'value-added';
+        x.why = afterOutputRow ? 'after the output row' : 'its code names no column, after the sector rows';
+      }
+    });
+  }
   {
     let seenOther = false;
     let afterOutput = false;
@@ -207,20 +234,28 @@ export function classify(block: Block, options: AssembleOptions): Classified {
   const colWhy = cr.map((x) => x.why);
 
   let totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
-  // Demote unexplained totals whose label says what they are; promote the sum of everything to output.
-  let changed = false;
-  for (const t of totals) {
-    const list = t.axis === 'row' ? rr : cr;
-    const idx = (t.axis === 'row' ? block.rows : block.cols).findIndex((e) => e.code === t.code);
-    const x = list[idx]!;
-    if (!t.sumOf && x.alt && x.why !== 'mapping' && x.why !== 'role written in the sheet') {
-      (t.axis === 'row' ? rowRoles : colRoles)[idx] = x.alt as never;
-      (t.axis === 'row' ? rowWhy : colWhy)[idx] = `${x.why}, but it is the sum of nothing before or after it, so it is read as ${x.alt}`;
-      changed = true;
+  // Demote unexplained totals whose label (or code) says what else they are; then promote the sum
+  // of everything to output. Each change is checked again.
+  const fixed = (x: RoleWhy<string>) => x.why === 'mapping' || x.why === 'role written in the sheet';
+  const demote = (): boolean => {
+    let changed = false;
+    for (const t of totals) {
+      const list = t.axis === 'row' ? rr : cr;
+      const idx = (t.axis === 'row' ? block.rows : block.cols).findIndex((e) => e.code === t.code);
+      const x = list[idx]!;
+      const roles = t.axis === 'row' ? rowRoles : colRoles;
+      if (!t.sumOf && x.alt && !fixed(x) && roles[idx] === 'total') {
+        roles[idx] = x.alt as never;
+        (t.axis === 'row' ? rowWhy : colWhy)[idx] = `${x.why}, but it is the sum of nothing before or after it, so it is read as ${x.alt}`;
+        changed = true;
+      }
     }
-  }
+    return changed;
+  };
   const promotable = kind === 'flows' || kind === 'use' || kind === 'make';
-  if (promotable) {
+  const promote = (): boolean => {
+    if (!promotable) return false;
+    let changed = false;
     for (const axis of ['row', 'column'] as const) {
       const roles = axis === 'row' ? rowRoles : colRoles;
       if (roles.includes('output')) continue;
@@ -228,13 +263,15 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       const t = grand[grand.length - 1];
       if (!t) continue;
       const idx = (axis === 'row' ? block.rows : block.cols).findIndex((e) => e.code === t.code);
-      if (['mapping', 'role written in the sheet'].includes((axis === 'row' ? rr : cr)[idx]!.why)) continue;
+      if (fixed((axis === 'row' ? rr : cr)[idx]!)) continue;
       roles[idx] = 'output';
       (axis === 'row' ? rowWhy : colWhy)[idx] += `; it is the sum of ${ALL_NAME[axis]}, so it is read as total output`;
       changed = true;
     }
-  }
-  if (changed) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
+    return changed;
+  };
+  if (demote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
+  if (promote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   checkTotals(block, rowRoles, colRoles, kind, findings, true, totals);
 
   const units = block.rows.map((e, i) => {

@@ -104,11 +104,14 @@ export class CsvScanner {
             p = q + 1;
             break;
           }
-          while (p < n && b[p] === 32 && d !== 32) p++;
+          const closed = p;
+          // Blank space between the closing quote and the delimiter or line end is allowed (as papaparse does).
+          while (p < n && b[p] !== d && (b[p] === 32 || b[p] === 9 || b[p] === 11 || b[p] === 12)) p++;
           if (p < n) {
             const c = b[p]!;
             if (c !== d && c !== 10 && c !== 13) this.fail('bad-quote', 'a quoted field has text after its closing quote');
           } else if (!final) return rowStart;
+          else if (p > closed) this.fail('bad-quote', 'a quoted field has text after its closing quote'); // as papaparse: spaces, then the end
         } else {
           while (p < n) {
             const c = b[p]!;

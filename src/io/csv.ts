@@ -239,6 +239,7 @@ export function readCsv(input: Uint8Array | string, options: CsvOptions): CsvRea
   const grid = sink.finish();
   if (grid.rowCount === 0) emptyFile(file);
   const conventions = conventionsOf(sink.numbers, delimiter, delimiterFrom, encoding, bom);
+  grid.conventions = { ...conventions };
   return { grid, conventions, findings: findingsOf(conventions, file) };
 }
 
@@ -357,6 +358,7 @@ export class StreamingCsv {
     const grid = this.sink!.finish();
     if (grid.rowCount === 0) emptyFile(file);
     const conventions = conventionsOf(this.sink!.numbers, this.delimiter, this.delimiterFrom, this.encoding, this.bom);
+    grid.conventions = { ...conventions };
     return { grid, conventions, findings: findingsOf(conventions, file) };
   }
 }

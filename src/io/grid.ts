@@ -49,6 +49,8 @@ export class Grid {
   readonly rows: GridRow[];
   readonly colCount: number;
   private mergeIndex: Map<number, MergeRange> | null = null;
+  /** The conventions the reader used (delimiter, decimal mark, encoding...), for the mapping. */
+  conventions?: Record<string, unknown>;
 
   constructor(
     readonly file: string,

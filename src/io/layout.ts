@@ -330,11 +330,19 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
         if (/^roles?$/i.test(codeAt(g, h, codeColumn ?? 0))) continue;
         let text = 0;
         let nums = 0;
+        const distinct = new Set<string>();
         for (const j of codeCols) {
           if (g.kind(h, j) === NUMBER) nums++;
-          else if (g.mergedText(h, j) && g.kind(h, j) !== NUMBER) text++;
+          else {
+            const t = g.mergedText(h, j);
+            if (t) {
+              text++;
+              distinct.add(t);
+            }
+          }
         }
-        if (codeCols.length && text >= codeCols.length * 0.5 && nums <= codeCols.length * 0.1) {
+        // Labels name each column; a group header over several columns (merged, or repeated) does not.
+        if (codeCols.length && text >= codeCols.length * 0.5 && nums <= codeCols.length * 0.1 && distinct.size >= text * 0.8) {
           const d = Math.abs(h - codeRow);
           if (d < bestD) {
             bestD = d;

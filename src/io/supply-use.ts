@@ -145,9 +145,20 @@ export function readSupplyUse(makeSource: TableSource, useSource: TableSource, o
     findings.push({ code: 'commodity-not-used', severity: 'note', message: `${makeOnlyCom.length} commodit${makeOnlyCom.length > 1 ? 'ies' : 'y'} of the make table ha${makeOnlyCom.length > 1 ? 've' : 's'} no lines in the use table (file ${uf}): ${listCodes(makeOnlyCom)}`, where: { file: uf } });
   }
 
-  const labelsBy = (part: SupplyUsePart, axis: 'rows' | 'cols', idx: number[]) => new Map(idx.map((i) => [part.block[axis][i]!.code, part.block[axis][i]!.label]));
-  const indLabels = new Map([...labelsBy(use, 'cols', use.sectorCols), ...(transposed ? labelsBy(make, 'cols', make.sectorCols) : labelsBy(make, 'rows', make.sectorRows))]);
-  const comLabels = new Map([...(transposed ? labelsBy(make, 'rows', make.sectorRows) : labelsBy(make, 'cols', make.sectorCols)), ...labelsBy(use, 'rows', use.sectorRows)]);
+  // Labels: the use table's first, then the make table's; a label that only repeats the code gives way.
+  const labelsFrom = (...lists: [SupplyUsePart, 'rows' | 'cols', number[]][]) => {
+    const out = new Map<string, string>();
+    for (const [part, axis, idx] of lists) {
+      for (const i of idx) {
+        const e = part.block[axis][i]!;
+        const had = out.get(e.code);
+        if (had === undefined || (had === e.code && e.label !== e.code)) out.set(e.code, e.label);
+      }
+    }
+    return out;
+  };
+  const indLabels = labelsFrom([use, 'cols', use.sectorCols], transposed ? [make, 'cols', make.sectorCols] : [make, 'rows', make.sectorRows]);
+  const comLabels = labelsFrom([use, 'rows', use.sectorRows], transposed ? [make, 'rows', make.sectorRows] : [make, 'cols', make.sectorCols]);
   const indCodes = [...mkInd];
   const comCodes = [...useCom, ...makeOnlyCom];
   const industries: Axis = { codes: indCodes, labels: indCodes.map((c) => pickLabel(c, indLabels)) };

@@ -74,7 +74,9 @@ function structureFields(s: WideStructure): Partial<LayoutMapping> {
 export function sourceBlock(source: TableSource, mapping?: MappingInput): SourceBlock {
   if (source instanceof Grid) {
     const s = detectStructure(source, mapping);
-    const sb: SourceBlock = { block: s.block, meta: s.meta, extra: structureFields(s), findings: s.findings };
+    const extra = structureFields(s);
+    if (source.conventions) extra.conventions = { ...source.conventions };
+    const sb: SourceBlock = { block: s.block, meta: s.meta, extra, findings: s.findings };
     if (s.description !== undefined) sb.description = s.description;
     return sb;
   }

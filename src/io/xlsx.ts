@@ -142,6 +142,7 @@ export async function readXlsx(bytes: Uint8Array, options: XlsxOptions): Promise
     if (range) merges.push(range);
   }
   const grid = new Grid(file, rows, sheet, merges);
+  grid.conventions = { ...numbers.conventions() };
   if (grid.rowCount === 0) throw new InputError('empty-file', `file ${file}, sheet '${sheet}' has no cells`, { file, sheet }, sheets.length > 1 ? `Choose another sheet: ${sheets.map((s) => `'${s}'`).join(', ')}` : 'Give a sheet with a table in it');
   return { grid, sheets, sheet, conventions: numbers.conventions(), findings };
 }
