@@ -455,16 +455,38 @@ function panel(a: Float64Array, n: number, c0: number, c1: number, piv: Int32Arr
     g(n - cm, c1 - cm, cm - c0, a, cm * n + c0, n, a, c0 * n + cm, n, a, cm * n + cm, n);
     return panel(a, n, cm, c1, piv, g, info);
   }
+  return panelBase(a, n, c0, c1, piv, info);
+}
+
+let panelBuffer: Float64Array = new Float64Array(0);
+
+/**
+ * One narrow panel (columns c0..c1−1, rows c0..n−1), one column at a time. The panel is copied
+ * into a contiguous buffer first (its rows are far apart in the matrix, so that each visit to
+ * a row would cost a page-table walk), factored there with its rows interchanged, written
+ * back, and then the same interchanges are applied to the rest of each row. The arithmetic is
+ * that of factoring in place.
+ */
+function panelBase(a: Float64Array, n: number, c0: number, c1: number, piv: Int32Array, info: number): number {
+  const w = c1 - c0;
+  const rows = n - c0;
+  if (panelBuffer.length < rows * w) panelBuffer = new Float64Array(Math.max(rows * w, 16 * 1024));
+  const b = panelBuffer;
+  for (let i = 0; i < rows; i++) {
+    const src = (c0 + i) * n + c0;
+    const dst = i * w;
+    for (let j = 0; j < w; j++) b[dst + j] = a[src + j]!;
+  }
   // The pivot search of column k + 1 rides along the update of column k (same rows, same
   // order, the first largest wins as in a separate scan); -1 when it has to be done apart.
   let next = -1;
-  for (let k = c0; k < c1; k++) {
+  for (let k = 0; k < w; k++) {
     let p = next;
     if (p < 0) {
       p = k;
-      let best = Math.abs(a[k * n + k]!);
-      for (let i = k + 1; i < n; i++) {
-        const v = Math.abs(a[i * n + k]!);
+      let best = Math.abs(b[k * w + k]!);
+      for (let i = k + 1; i < rows; i++) {
+        const v = Math.abs(b[i * w + k]!);
         if (v > best) {
           best = v;
           p = i;
@@ -472,32 +494,32 @@ function panel(a: Float64Array, n: number, c0: number, c1: number, piv: Int32Arr
       }
     }
     next = -1;
-    piv[k] = p;
-    const rk = k * n;
+    piv[c0 + k] = c0 + p;
+    const rk = k * w;
     if (p !== k) {
-      const rp = p * n;
-      for (let j = 0; j < n; j++) {
-        const t = a[rk + j]!;
-        a[rk + j] = a[rp + j]!;
-        a[rp + j] = t;
+      const rp = p * w;
+      for (let j = 0; j < w; j++) {
+        const t = b[rk + j]!;
+        b[rk + j] = b[rp + j]!;
+        b[rp + j] = t;
       }
     }
-    const d = a[rk + k]!;
+    const d = b[rk + k]!;
     if (d === 0) {
-      if (info === 0) info = k + 1;
+      if (info === 0) info = c0 + k + 1;
       continue;
     }
     const inv = 1 / d;
     const k1 = k + 1;
-    if (k1 < c1) {
+    if (k1 < w) {
       let np = k1;
       let best = -1;
-      for (let i = k1; i < n; i++) {
-        const ri = i * n;
-        const l = a[ri + k]! * inv;
-        a[ri + k] = l;
-        if (l !== 0) for (let j = k1; j < c1; j++) a[ri + j] = a[ri + j]! - l * a[rk + j]!;
-        const v = Math.abs(a[ri + k1]!);
+      for (let i = k1; i < rows; i++) {
+        const ri = i * w;
+        const l = b[ri + k]! * inv;
+        b[ri + k] = l;
+        if (l !== 0) for (let j = k1; j < w; j++) b[ri + j] = b[ri + j]! - l * b[rk + j]!;
+        const v = Math.abs(b[ri + k1]!);
         if (i === k1) best = v;
         else if (v > best) {
           best = v;
@@ -506,10 +528,29 @@ function panel(a: Float64Array, n: number, c0: number, c1: number, piv: Int32Arr
       }
       next = np;
     } else {
-      for (let i = k1; i < n; i++) {
-        const ri = i * n;
-        a[ri + k] = a[ri + k]! * inv;
-      }
+      for (let i = k1; i < rows; i++) b[i * w + k] = b[i * w + k]! * inv;
+    }
+  }
+  for (let i = 0; i < rows; i++) {
+    const dst = (c0 + i) * n + c0;
+    const src = i * w;
+    for (let j = 0; j < w; j++) a[dst + j] = b[src + j]!;
+  }
+  // The same interchanges, in order, on the columns left and right of the panel.
+  for (let k = c0; k < c1; k++) {
+    const p = piv[k]!;
+    if (p === k) continue;
+    const rk = k * n;
+    const rp = p * n;
+    for (let j = 0; j < c0; j++) {
+      const t = a[rk + j]!;
+      a[rk + j] = a[rp + j]!;
+      a[rp + j] = t;
+    }
+    for (let j = c1; j < n; j++) {
+      const t = a[rk + j]!;
+      a[rk + j] = a[rp + j]!;
+      a[rp + j] = t;
     }
   }
   return info;
