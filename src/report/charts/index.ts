@@ -7,3 +7,5 @@ export * from './bars';
 export * from './quadrant';
 export * from './tornado';
 export * from './histogram';
+export * from './heatmap';
+export * from './bands';

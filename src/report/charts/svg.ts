@@ -79,5 +79,6 @@ export function clip(label: string, max: number): string {
 export function labelWidth(labels: readonly string[], max: number): number {
   let longest = 0;
   for (const l of labels) longest = Math.max(longest, Math.min(max, l.length));
-  return Math.round(Math.min(12 + 6.6 * max, Math.max(60, 14 + 6.6 * longest)));
+  // About 7.2 pixels a character at 12 pixels of a system sans-serif (6.6 clipped long labels).
+  return Math.round(Math.min(16 + 7.2 * max, Math.max(60, 16 + 7.2 * longest)));
 }
