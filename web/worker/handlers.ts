@@ -4,8 +4,14 @@
  */
 import type { Handler } from './context';
 import { tableOps } from './ops/table';
+import { analysisOps } from './ops/analyses';
+import { sensitivityOps } from './ops/sensitivity';
 
-const groups: Record<string, Handler>[] = [tableOps];
+const groups: Record<string, Handler>[] = [
+  tableOps,
+  analysisOps,
+  sensitivityOps,
+];
 
 export const handlers: Record<string, Handler> = {};
 for (const g of groups) {
