@@ -7,9 +7,19 @@ import type { Step } from '../lib/state.svelte';
 import OpenPanel from './OpenPanel.svelte';
 import ChecksPanel from './ChecksPanel.svelte';
 import MultipliersPanel from './MultipliersPanel.svelte';
+import CoefficientsPanel from './CoefficientsPanel.svelte';
+import LinkagesPanel from './LinkagesPanel.svelte';
+import ScenariosPanel from './ScenariosPanel.svelte';
+import ResultsPanel from './ResultsPanel.svelte';
+import SensitivityPanel from './SensitivityPanel.svelte';
 
 export const panels: Partial<Record<Step, Component>> = {
   open: OpenPanel,
   checks: ChecksPanel,
   multipliers: MultipliersPanel,
+  coefficients: CoefficientsPanel,
+  linkages: LinkagesPanel,
+  scenarios: ScenariosPanel,
+  results: ResultsPanel,
+  sensitivity: SensitivityPanel,
 };
