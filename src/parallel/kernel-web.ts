@@ -19,9 +19,11 @@ export function startBrowserKernel(options: ParallelOptions & { workerUrl?: URL 
     return Promise.reject(new Error('the page is not cross-origin isolated, so threads cannot share memory'));
   }
   const threads = options.threads ?? Math.max(1, g.navigator?.hardwareConcurrency ?? 1);
-  const url = options.workerUrl ?? new URL('./kernel-web-worker.ts', import.meta.url);
   const spawn = (): Helper => {
-    const w = new Worker(url, { type: 'module' });
+    // Written inline so that Vite finds and bundles the worker.
+    const w = options.workerUrl
+      ? new Worker(options.workerUrl, { type: 'module' })
+      : new Worker(new URL('./kernel-web-worker.ts', import.meta.url), { type: 'module' });
     const ready = new Promise<void>((res, rej) => {
       w.onmessage = (e: MessageEvent<{ type: string }>) => (e.data.type === 'ready' ? res() : rej(new Error(`unexpected message ${e.data.type}`)));
       w.onerror = (e) => rej(new Error(e.message));
