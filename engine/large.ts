@@ -283,6 +283,56 @@ export class LargeLeontief {
   impact(d: ArrayLike<number>): LargeSolution {
     return this.run(d, false);
   }
+
+  /**
+   * Output for several scenarios at once: D is n × k (one column per scenario). The direct
+   * path solves all columns with one blocked solve; the iterative path solves them one by one.
+   */
+  impactMany(D: Matrix): LargeSolution[] {
+    return this.many(D, false);
+  }
+
+  /** Row vectors c′L for several measures: C is n × k (one column per measure). */
+  weightedMany(C: Matrix): LargeSolution[] {
+    return this.many(C, true);
+  }
+
+  private many(B: Matrix, transpose: boolean): LargeSolution[] {
+    const n = this.n;
+    if (B.rows !== n) throw new InputError('bad-size', `the columns have ${B.rows} rows for ${n} sectors`);
+    const k = B.cols;
+    const plan = this.plan();
+    if (plan.method !== 'direct' || k < 2) {
+      const out: LargeSolution[] = [];
+      for (let j = 0; j < k; j++) {
+        const col = new Float64Array(n);
+        for (let i = 0; i < n; i++) col[i] = B.data[i * k + j]!;
+        out.push(this.run(col, transpose));
+      }
+      return out;
+    }
+    for (let q = 0; q < B.data.length; q++) {
+      if (!Number.isFinite(B.data[q]!)) {
+        const i = Math.floor(q / k);
+        throw new InputError('non-finite', `row ${i + 1}, column ${(q % k) + 1} of the vectors is ${B.data[q]}, not a finite number`, { row: i + 1, column: (q % k) + 1 });
+      }
+    }
+    const lu = this.factor();
+    const X = transpose ? lu.solveTransposeMany(B) : lu.solveMany(B);
+    const op = transpose ? transposed(this.flowsOp) : this.flowsOp;
+    const out: LargeSolution[] = [];
+    for (let j = 0; j < k; j++) {
+      const values = new Float64Array(n);
+      const rhs = new Float64Array(n);
+      for (let i = 0; i < n; i++) {
+        values[i] = X.data[i * k + j]!;
+        rhs[i] = B.data[i * k + j]!;
+      }
+      const residual = leontiefResidualOf(op, values, rhs);
+      out.push({ values, method: 'direct', storage: plan.storage, iterations: 0, residual, converged: Number.isFinite(residual), reason: plan.reason });
+    }
+    return out;
+  }
 }
 
 /** The operator with its norms known already (they cost a pass over the matrix). */

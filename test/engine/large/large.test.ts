@@ -127,3 +127,36 @@ describe('LargeLeontief', () => {
     expect(() => new LargeLeontief(t).impact(new Float64Array(n).fill(Infinity))).toThrow(/value 1 of the vector/);
   });
 });
+
+describe('several scenarios and measures', () => {
+  const t = syntheticTable({ regions: 3, sectors: 40, seed: 8 });
+  const n = 120;
+  const k = 3;
+  const D = { rows: n, cols: k, data: Float64Array.from({ length: n * k }, (_, q) => ((q * 37) % 11) + (q % k)) };
+  const Linv = mlInverse(new MlMatrix(toRows(identityMinus(coefficients(t)))));
+
+  for (const method of ['direct', 'gmres'] as const) {
+    it(`solve column by column like ml-matrix's inverse, ${method} (source: ml-matrix inverse)`, () => {
+      const m = new LargeLeontief(t, { method });
+      const imp = m.impactMany(D);
+      const wm = m.weightedMany(D);
+      expect(imp).toHaveLength(k);
+      const ref = Linv.mmul(new MlMatrix(toRows(D)));
+      const refT = Linv.transpose().mmul(new MlMatrix(toRows(D)));
+      for (let j = 0; j < k; j++) {
+        expect(imp[j]!.method).toBe(method);
+        expect(relErr(imp[j]!.values, ref.getColumn(j))).toBeLessThan(1e-9);
+        expect(relErr(wm[j]!.values, refT.getColumn(j))).toBeLessThan(1e-9);
+        expect(imp[j]!.residual).toBeLessThan(1e-11);
+      }
+    });
+  }
+
+  it('refuses a column block of the wrong height or with a non-finite value', () => {
+    const m = new LargeLeontief(t);
+    expect(() => m.impactMany({ rows: 2, cols: 1, data: Float64Array.of(1, 2) })).toThrow(InputError);
+    const bad = { rows: n, cols: 2, data: new Float64Array(n * 2) };
+    bad.data[5] = NaN;
+    expect(() => m.impactMany(bad)).toThrow(/row 3, column 2/);
+  });
+});
