@@ -2,7 +2,9 @@
  * Builds the demo economy: the Vellan Coast, an INVENTED coastal region. Nothing here is real
  * data; the numbers are made up to look plausible and to balance exactly.
  *
- * Run: npx tsx data-demo/build.ts   (writes data-demo/vellan-coast.table.json)
+ * Run: npx tsx data-demo/build.ts   (writes data-demo/vellan-coast.table.json, and the same table
+ * as vellan-coast.csv and vellan-coast.xlsx with the project's own writers in src/io, which the
+ * readers read back to the identical table)
  *
  * How it is made: each sector gets an intermediate-input share, an import share and a pattern
  * of purchases; final demand is chosen by sector; output follows from x = (I − A)⁻¹ f; flows are
@@ -14,6 +16,8 @@ import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { LeontiefModel } from '../engine/leontief';
 import type { PlainTable } from '../engine/table';
+import { makeTable } from '../engine/table';
+import { writeTableCsv, writeTableXlsx } from '../src/io/index';
 
 const here = dirname(fileURLToPath(import.meta.url));
 
@@ -172,4 +176,7 @@ const table: PlainTable = {
 };
 
 writeFileSync(join(here, 'vellan-coast.table.json'), JSON.stringify(table, null, 1) + '\n');
-console.log(`wrote data-demo/vellan-coast.table.json: ${n} sectors, total output ${m(X.reduce((a, b) => a + b, 0)).toFixed(1)} EUR millions`);
+const built = makeTable(table);
+writeFileSync(join(here, 'vellan-coast.csv'), writeTableCsv(built));
+writeFileSync(join(here, 'vellan-coast.xlsx'), await writeTableXlsx(built, { sheet: 'Vellan Coast', coefficients: true }));
+console.log(`wrote data-demo/vellan-coast.table.json, .csv and .xlsx: ${n} sectors, total output ${m(X.reduce((a, b) => a + b, 0)).toFixed(1)} EUR millions`);

@@ -588,7 +588,7 @@ export function tornadoSection(input: TornadoSectionInput): Section {
     title: `Sensitivity: ${input.target}`,
     about: data.about,
     sheet: 'Sensitivity',
-    paragraphs: [`The coefficients whose error would move ${input.target.toLowerCase()} most. Row sector supplies, column sector buys.`],
+    paragraphs: [`The coefficients whose error would move ${lowerFirst(input.target)} most. Row sector supplies, column sector buys.`],
     tables: [
       {
         id: 'tornado',
@@ -607,7 +607,7 @@ export function tornadoSection(input: TornadoSectionInput): Section {
         notes,
       },
     ],
-    charts: [{ kind: 'tornado', id: 'tornado-chart', title: `Sensitivity of ${input.target.toLowerCase()}`, unit: input.unit, base: data.value, percent: data.percent, items }],
+    charts: [{ kind: 'tornado', id: 'tornado-chart', title: `Sensitivity of ${lowerFirst(input.target)}`, unit: input.unit, base: data.value, percent: data.percent, items }],
     // The general cautions (fixed coefficients, review) are in every report already.
     cautions: SENSITIVITY_CAUTIONS.filter((c) => !/qualified economist|fixed coefficients/i.test(c)),
   });
@@ -798,6 +798,11 @@ export function buildReport(p: ReportParts): Report {
 /** Every table of a report, in order (for writers and tests). */
 export function reportTables(r: Report): ReportTable[] {
   return r.sections.flatMap((s) => s.tables);
+}
+
+/** The first letter in lower case, for a name inside a sentence (the rest, such as a scenario's name, kept). */
+function lowerFirst(s: string): string {
+  return /^[A-Z][a-z]/.test(s) ? s[0]!.toLowerCase() + s.slice(1) : s;
 }
 
 /** A number in plain words for a sentence (no locale: sentences are in the model as text). */

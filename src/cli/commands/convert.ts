@@ -1,0 +1,76 @@
+/** `ripplewise convert TABLE --out FILE`: read a table in any layout src/io reads, write it as CSV, TSV, XLSX or JSON (read back identically). */
+import type { Command } from 'commander';
+import { coefficients } from '../../../engine/table';
+import { buildReport, checksSection, matrixSection, setting } from '../../report/model';
+import type { CommonFlags } from '../common';
+import { examples, outputOptions, reportBase, reportInputs, tableLine, tableOptions } from '../common';
+import { checks } from '../../../engine/checks';
+import type { CliContext } from '../context';
+import { UsageError } from '../errors';
+import type { Action } from '../main';
+import { deliver, planOutputs } from '../output';
+import { loadTable } from '../table-input';
+import { tableJson, tableWriters } from '../table-out';
+import { moneyUnit } from '../../../engine/table';
+
+interface Flags extends CommonFlags {
+  coefficients?: boolean;
+  printMapping?: boolean;
+}
+
+const FORMATS = ['csv', 'tsv', 'xlsx', 'json', 'html'] as const;
+
+export const CONVERT_ABOUT = 'Read a table (JSON, CSV, TSV or XLSX, wide or long, with a mapping if needed) and write it in one layout that every Ripplewise reader reads back to the identical table.';
+
+export function register(p: Command, run: (a: Action, json: boolean) => void): void {
+  const cmd = p.command('convert')
+    .summary('Read a table in any layout and write it as CSV, TSV, XLSX or JSON').argument('<table>', "the table ('-' for standard input)").description(CONVERT_ABOUT);
+  tableOptions(cmd);
+  cmd.option('--coefficients', 'XLSX: add a sheet of technical coefficients');
+  cmd.option('--print-mapping', 'print the layout the reader detected (JSON), to edit and pass back with --mapping');
+  outputOptions(cmd, FORMATS, { locale: true });
+  examples(cmd, [
+    ['ripplewise convert table.json --out table.xlsx', 'JSON to a workbook'],
+    ['ripplewise convert agency.xlsx --sheet "Table 2" --out table.csv', 'one sheet of an agency workbook to CSV'],
+    ['ripplewise convert agency.csv --print-mapping > mapping.json', 'the detected layout, to correct'],
+    ['ripplewise convert agency.csv --mapping mapping.json --out table.json', 'read with a corrected layout'],
+  ]);
+  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
+}
+
+async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+  if (f.printMapping && (f.out?.length || f.format || f.json)) throw new UsageError('--print-mapping prints the layout alone: leave out --out, --format and --json', 'conflict');
+  const plan = planOutputs(f, FORMATS);
+  const loaded = await loadTable(ctx, name, f);
+  const t = loaded.table;
+  if (f.printMapping) {
+    ctx.stdout.write(JSON.stringify(loaded.mapping ?? null, null, 2) + '\n');
+    return 0;
+  }
+  const found = [...loaded.findings, ...checks(t)];
+  const report = () =>
+    buildReport({
+      ...reportBase(ctx, f),
+      title: t.meta.title ?? loaded.file.name,
+      table: t,
+      inputs: reportInputs(loaded),
+      settings: [setting('shape', 'Layout read', loaded.shape ?? 'detected', f.shape ? 'given' : 'guessed')],
+      assumptions: [],
+      findings: found,
+      sections: [
+        matrixSection({ id: 'flows', title: 'Intermediate flows Z', about: 'What each sector (column) buys from each sector (row).', rows: t.sectors, cols: t.sectors, matrix: t.Z, unit: moneyUnit(t.meta), style: 'amount', sheet: 'Flows' }),
+        matrixSection({ id: 'coefficients', title: 'Technical coefficients A', about: 'Inputs from each sector (row) per unit of output of each sector (column).', rows: t.sectors, cols: t.sectors, matrix: coefficients(t), unit: `${moneyUnit(t.meta)} per ${moneyUnit(t.meta)} of output`, sheet: 'Coefficients' }),
+        checksSection(found),
+      ],
+    });
+  return deliver(
+    ctx,
+    {
+      json: () => ({ file: loaded.file.name, sha256: loaded.file.sha256, shape: loaded.shape ?? null, table: tableJson(t), mapping: loaded.mapping ?? null, findings: loaded.findings }),
+      text: () => `${tableLine(loaded)}\nRead as ${loaded.shape ?? 'a table'}; write it with --out FILE.csv, .tsv, .xlsx, .json or .html.\n`,
+      writers: tableWriters(t, report, { coefficients: f.coefficients === true }),
+    },
+    plan,
+    f,
+  );
+}

@@ -1,0 +1,94 @@
+/** `ripplewise linkages TABLE`: backward and forward linkages, dispersion indices and key sectors. */
+import type { Command } from 'commander';
+import { KEY_SECTOR_GROUPS, LINKAGES_ABOUT, linkages } from '../../../engine/linkages';
+import { LeontiefModel } from '../../../engine/leontief';
+import { buildReport, checksSection, describeTable, linkagesSection, modelAssumptions } from '../../report/model';
+import type { CommonFlags } from '../common';
+import { checkedTable, examples, outputOptions, reportBase, reportInputs, reportWriters, tableLine, tableOptions } from '../common';
+import type { CliContext } from '../context';
+import { styles } from '../context';
+import type { Action } from '../main';
+import { deliver, planOutputs } from '../output';
+import { CAUTION_LINE, fixed, textTable } from '../text';
+
+interface Flags extends CommonFlags {
+  variation?: boolean;
+}
+
+const FORMATS = ['json', 'html', 'xlsx', 'csv'] as const;
+
+export function register(p: Command, run: (a: Action, json: boolean) => void): void {
+  const cmd = p.command('linkages')
+    .summary('Backward and forward linkages and key sectors').argument('<table>', "the table ('-' for standard input)").description(LINKAGES_ABOUT);
+  tableOptions(cmd);
+  cmd.option('--no-variation', 'skip the coefficients of variation (they need the whole Leontief inverse)');
+  outputOptions(cmd, FORMATS, { locale: true });
+  examples(cmd, [
+    ['ripplewise linkages table.csv', 'indices and key-sector groups'],
+    ['ripplewise linkages table.csv --out linkages.html', 'a report with the key-sector quadrant'],
+    ['ripplewise linkages table.csv --json', 'as JSON'],
+  ]);
+  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
+}
+
+async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+  const plan = planOutputs(f, FORMATS);
+  const loaded = await checkedTable(ctx, name, f);
+  const t = loaded.table;
+  const l = linkages(t, LeontiefModel.fromTable(t), { variation: f.variation !== false });
+  const report = () =>
+    buildReport({
+      ...reportBase(ctx, f),
+      title: `Linkages: ${t.meta.title ?? loaded.file.name}`,
+      table: t,
+      inputs: reportInputs(loaded),
+      settings: [{ key: 'variation', label: 'Coefficients of variation', value: f.variation !== false, source: f.variation === false ? 'given' : 'default' }],
+      assumptions: modelAssumptions(t, undefined, { typeII: 'off' }).filter((a) => !a.startsWith('No household') && !a.startsWith('Demand changes')),
+      findings: [...loaded.checks, ...l.findings],
+      sections: [linkagesSection(l), checksSection(loaded.checks)],
+    });
+  const arr = (a: Float64Array | undefined) => (a ? Array.from(a) : null);
+  return deliver(
+    ctx,
+    {
+      json: () => ({
+        about: LINKAGES_ABOUT,
+        file: loaded.file.name,
+        sha256: loaded.file.sha256,
+        table: describeTable(t),
+        groups: KEY_SECTOR_GROUPS,
+        sectors: l.sectors.codes.map((code, j) => ({
+          code,
+          label: l.sectors.labels[j]!,
+          directBackward: l.directBackward[j]!,
+          directForward: l.directForward[j]!,
+          totalBackward: l.totalBackward[j]!,
+          totalForward: l.totalForward[j]!,
+          power: l.power[j]!,
+          sensitivity: l.sensitivity[j]!,
+          variationBackward: arr(l.variationBackward)?.[j] ?? null,
+          variationForward: arr(l.variationForward)?.[j] ?? null,
+          group: l.group[j]!,
+        })),
+        keySectors: l.groups.key,
+        findings: l.findings,
+        cautions: l.cautions,
+      }),
+      text: (colour) => {
+        const s = styles(colour);
+        const rows = l.sectors.codes.map((c, j) => [c, l.sectors.labels[j]!.slice(0, 40), fixed(l.power[j], 3), fixed(l.sensitivity[j], 3), l.group[j]!]);
+        return [
+          tableLine(loaded),
+          '',
+          textTable([{ label: 'code' }, { label: 'sector' }, { label: 'backward index', align: 'right' }, { label: 'forward index', align: 'right' }, { label: 'group' }], rows),
+          `Key sectors: ${l.groups.key.length ? l.groups.key.join(', ') : 'none'}`,
+          s.dim(CAUTION_LINE),
+          '',
+        ].join('\n');
+      },
+      writers: reportWriters(report),
+    },
+    plan,
+    f,
+  );
+}

@@ -1,0 +1,113 @@
+/** `ripplewise multipliers TABLE`: per-sector multipliers of every measure, simple and total, Type I and Type II. */
+import type { Command } from 'commander';
+import { multipliers, MULTIPLIERS_ABOUT } from '../../../engine/multipliers';
+import type { Multipliers } from '../../../engine/multipliers';
+import { buildReport, describeTable, multipliersSection, checksSection } from '../../report/model';
+import type { CommonFlags } from '../common';
+import { checkedTable, examples, outputOptions, reportBase, reportInputs, reportWriters, settingsJson, tableLine, tableOptions } from '../common';
+import type { CliContext } from '../context';
+import { styles } from '../context';
+import type { Action } from '../main';
+import type { ModelFlags } from '../model-options';
+import { modelOptions, prepareModels } from '../model-options';
+import { deliver, planOutputs } from '../output';
+import { CAUTION_LINE, fixed, textTable } from '../text';
+
+type Flags = CommonFlags & ModelFlags;
+
+const FORMATS = ['json', 'html', 'xlsx', 'csv'] as const;
+
+export function register(p: Command, run: (a: Action, json: boolean) => void): void {
+  const cmd = p
+    .command('multipliers')
+    .summary('Multipliers of every measure, simple and total, Type I and II')
+    .argument('<table>', "the table: .json, .csv, .tsv or .xlsx ('-' for standard input)")
+    .description(`${MULTIPLIERS_ABOUT} Type I = simple ÷ direct; Type II = total ÷ direct (closed for households).`);
+  tableOptions(cmd);
+  modelOptions(cmd);
+  outputOptions(cmd, FORMATS, { locale: true });
+  examples(cmd, [
+    ['ripplewise multipliers table.csv', 'a table of multipliers per measure'],
+    ['ripplewise multipliers table.xlsx --sheet IO --json', 'per-sector multipliers of each measure as JSON'],
+    ['ripplewise multipliers table.csv --household-column HHC --labour-income-row COE', 'choose the Type II closure'],
+    ['ripplewise multipliers table.csv --no-household --measure output,JOBS', 'Type I only, two measures'],
+    ['ripplewise multipliers table.csv --out multipliers.xlsx', 'a workbook of the multipliers'],
+  ]);
+  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
+}
+
+/** The JSON of one measure's multipliers: blanks (Type I and II where the direct effect is 0) are null. */
+export function multipliersJson(m: Multipliers) {
+  const v = (a: Float64Array | undefined, j: number) => (a && Number.isFinite(a[j]!) ? a[j]! : null);
+  return {
+    code: m.measure.code,
+    label: m.measure.label,
+    kind: m.measure.kind,
+    unit: m.unit,
+    ratioUnit: 'ratio',
+    sectors: m.sectors.codes.map((code, j) => ({
+      code,
+      label: m.sectors.labels[j]!,
+      direct: v(m.direct, j),
+      indirect: v(m.indirect, j),
+      simple: v(m.simple, j),
+      induced: v(m.induced, j),
+      total: v(m.total, j),
+      typeI: v(m.typeI, j),
+      typeII: v(m.typeII, j),
+    })),
+    notes: m.findings.map((f) => f.message.replace(/ \(NaN\)$/, '')),
+  };
+}
+
+async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+  const plan = planOutputs(f, FORMATS);
+  const loaded = await checkedTable(ctx, name, f);
+  const t = loaded.table;
+  const prep = prepareModels(t, f);
+  const list = multipliers(prep.models, prep.measures);
+  const report = () =>
+    buildReport({
+      ...reportBase(ctx, f),
+      title: `Multipliers: ${t.meta.title ?? loaded.file.name}`,
+      table: t,
+      inputs: reportInputs(loaded),
+      settings: prep.settings,
+      assumptions: prep.assumptions,
+      findings: [...loaded.checks, ...(prep.models.closure?.findings ?? [])],
+      sections: [multipliersSection(list), checksSection(loaded.checks)],
+    });
+  return deliver(
+    ctx,
+    {
+      json: () => ({
+        about: MULTIPLIERS_ABOUT,
+        file: loaded.file.name,
+        sha256: loaded.file.sha256,
+        table: describeTable(t),
+        typeII: prep.closure === 'closed',
+        settings: settingsJson(prep.settings),
+        measures: list.map(multipliersJson),
+        findings: [...loaded.checks, ...(prep.models.closure?.findings ?? [])],
+        cautions: list[0]?.cautions ?? [],
+      }),
+      text: (colour) => {
+        const s = styles(colour);
+        const out = [`${tableLine(loaded)}`, prep.closure === 'closed' ? `Type II closed with ${prep.settings.filter((x) => x.key === 'householdColumn' || x.key === 'labourIncomeRow').map((x) => `${x.value} (${x.source})`).join(' and ')}` : 'Type II: not available (no household closure)', ''];
+        for (const m of list) {
+          const closed = m.total !== undefined;
+          out.push(s.bold(`${m.measure.label} multipliers (${m.unit})`));
+          const cols = [{ label: 'code' }, { label: 'sector' }, { label: 'simple', align: 'right' as const }, ...(closed ? [{ label: 'total', align: 'right' as const }] : []), { label: 'Type I', align: 'right' as const }, ...(closed ? [{ label: 'Type II', align: 'right' as const }] : [])];
+          const rows = m.sectors.codes.map((c, j) => [c, m.sectors.labels[j]!.slice(0, 40), fixed(m.simple[j], 4), ...(closed ? [fixed(m.total![j], 4)] : []), fixed(m.typeI[j], 3), ...(closed ? [fixed(m.typeII![j], 3)] : [])]);
+          out.push(textTable(cols, rows));
+          for (const n of m.findings) out.push(s.dim(`  note: ${n.message.replace(/ \(NaN\)$/, '')}`));
+        }
+        out.push(s.dim(CAUTION_LINE), '');
+        return out.join('\n');
+      },
+      writers: reportWriters(report),
+    },
+    plan,
+    f,
+  );
+}

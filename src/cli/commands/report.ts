@@ -1,0 +1,154 @@
+/**
+ * `ripplewise report TABLE [--scenario FILE]`: the whole report of a table: checks, multipliers,
+ * linkages and key sectors, the sensitivity tornado and, with scenarios, their impacts.
+ */
+import type { Command } from 'commander';
+import { impacts } from '../../../engine/impact';
+import { linkages } from '../../../engine/linkages';
+import { multipliers } from '../../../engine/multipliers';
+import type { ResultTarget } from '../../../engine/sensitivity';
+import { sectorIndex } from '../../../engine/table';
+import { tornado } from '../../../engine/tornado';
+import type { Section } from '../../report/model';
+import { buildReport, checksSection, comparisonSection, linkagesSection, multipliersSection, scenarioSection, setting, tornadoSection } from '../../report/model';
+import type { CommonFlags } from '../common';
+import { checkedTable, examples, numberOption, outputOptions, reportBase, reportInputs, reportWriters, tableOptions } from '../common';
+import type { CliContext } from '../context';
+import { UsageError } from '../errors';
+import { reportInput } from '../files';
+import type { Action } from '../main';
+import type { ModelFlags } from '../model-options';
+import { modelOptions, prepareModels } from '../model-options';
+import { deliver, planOutputs } from '../output';
+import { progress } from '../progress';
+import type { LoadedScenarios } from '../scenario-input';
+import { loadScenarios } from '../scenario-input';
+
+interface Flags extends CommonFlags, ModelFlags {
+  scenario?: string;
+  name?: string[];
+  title?: string;
+  tornado?: boolean;
+  tornadoSector?: string;
+  tornadoTop?: string;
+  tornadoPercent?: string;
+}
+
+const FORMATS = ['html', 'xlsx', 'json', 'csv'] as const;
+
+function collect(v: string, prev: string[] | undefined): string[] {
+  return [...(prev ?? []), v];
+}
+
+export function register(p: Command, run: (a: Action, json: boolean) => void): void {
+  const cmd = p
+    .command('report')
+    .summary('The whole report: checks, multipliers, linkages, tornado, scenarios')
+    .argument('<table>', "the table ('-' for standard input)")
+    .description('The whole report of a table: checks, multipliers of every measure, linkages and key sectors, the sensitivity tornado and, with --scenario, each scenario\'s impact.')
+    .option('-s, --scenario <file>', 'scenarios to report (JSON)')
+    .option('-n, --name <name>', 'only the scenario of this name (repeatable)', collect)
+    .option('--title <text>', 'the report title')
+    .option('--no-tornado', 'leave out the sensitivity tornado')
+    .option('--tornado-sector <code>', "the tornado's result: the output multiplier of this sector (default: the first scenario's total output, else the largest output multiplier)")
+    .option('--tornado-top <n>', 'coefficients in the tornado (default 10)')
+    .option('--tornado-percent <p>', 'the swing of each coefficient, in percent (default 10)');
+  tableOptions(cmd);
+  modelOptions(cmd);
+  outputOptions(cmd, FORMATS, { locale: true });
+  examples(cmd, [
+    ['ripplewise report table.csv --out report.html', 'checks, multipliers, linkages and the tornado'],
+    ['ripplewise report table.csv --scenario s.json --out r.html --out r.xlsx --out r.json', 'three formats at once'],
+    ['ripplewise report table.csv --scenario s.json --name "New plant" --out r.html', 'one scenario'],
+    ['ripplewise report table.csv --tornado-sector FOOD --tornado-percent 20 --out r.html', 'the tornado of one multiplier'],
+  ]);
+  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
+}
+
+async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+  const plan = planOutputs(f, FORMATS);
+  if (!plan.length && !f.json) throw new UsageError('report writes files: give --out FILE.html (or .xlsx, .json, .csv), or --format', 'no-output', 'For a quick look in the terminal, use multipliers, impact or linkages');
+  const top = numberOption(f.tornadoTop, '--tornado-top', { min: 1, max: 100, integer: true }) ?? 10;
+  const percent = numberOption(f.tornadoPercent, '--tornado-percent', { min: 0.001, max: 100 }) ?? 10;
+  const bar = progress(ctx, 'report', 6, f);
+  try {
+    bar.step('reading the table');
+    const loaded = await checkedTable(ctx, name, f);
+    const t = loaded.table;
+    let sc: LoadedScenarios | undefined;
+    if (f.scenario) {
+      bar.step('reading the scenarios');
+      sc = await loadScenarios(ctx, f.scenario, t, f.name);
+    } else if (f.name) throw new UsageError('--name picks scenarios: add --scenario FILE', 'missing-option');
+    bar.step('factoring the model');
+    const prep = prepareModels(t, f);
+    bar.step('multipliers and linkages');
+    const mult = multipliers(prep.models, prep.measures);
+    const link = linkages(t, prep.models.open);
+    bar.step('scenarios');
+    const results = sc ? impacts(prep.models, sc.resolved, prep.measures) : [];
+    const settings = [...prep.settings];
+    const sections: Section[] = [];
+    if (sc) {
+      settings.push(setting('scenarios', 'Scenarios', sc.resolved.map((r) => r.name).join('; '), f.name ? 'given' : 'default'));
+      if (results.length > 1) sections.push(comparisonSection(results));
+      sc.resolved.forEach((r, k) => sections.push(scenarioSection(r, results[k]!, { index: k + 1 })));
+    }
+    sections.push(multipliersSection(mult), linkagesSection(link));
+    if (f.tornado !== false) {
+      bar.step('sensitivity');
+      let target: ResultTarget;
+      let what: string;
+      let unit: string;
+      const money = mult[0]!.measure.unit;
+      if (f.tornadoSector !== undefined) {
+        const j = sectorIndex(t, f.tornadoSector);
+        target = { kind: 'multiplier', sector: j };
+        what = `Output multiplier of ${t.sectors.codes[j]} (${t.sectors.labels[j]})`;
+        unit = `${money} per ${money} of final demand`;
+      } else if (sc && results.length) {
+        target = { kind: 'impact', d: sc.resolved[0]!.demand };
+        what = `Total output impact of '${sc.resolved[0]!.name}' (open model)`;
+        unit = money;
+      } else {
+        const om = prep.models.open.outputMultipliers();
+        let j = 0;
+        for (let i = 1; i < om.length; i++) if (om[i]! > om[j]!) j = i;
+        target = { kind: 'multiplier', sector: j };
+        what = `Output multiplier of ${t.sectors.codes[j]} (${t.sectors.labels[j]}), the largest`;
+        unit = `${money} per ${money} of final demand`;
+      }
+      const data = tornado(prep.models.open, target, { top, percent });
+      sections.push(tornadoSection({ data, sectors: t.sectors, target: what, unit }));
+      settings.push(setting('tornado', 'Sensitivity tornado', what, f.tornadoSector ? 'given' : 'default'), setting('tornadoPercent', 'Tornado swing (%)', percent, f.tornadoPercent ? 'given' : 'default'), setting('tornadoTop', 'Tornado coefficients', top, f.tornadoTop ? 'given' : 'default'));
+    } else settings.push(setting('tornado', 'Sensitivity tornado', 'off', 'given'));
+    sections.push(checksSection(loaded.checks, { condition: prep.models.open.condition() }));
+    bar.stop();
+    const title = f.title ?? (sc ? (sc.resolved.length === 1 ? `Impact of ${sc.resolved[0]!.name}` : `Impacts of ${sc.resolved.length} scenarios`) : `Input-output report: ${t.meta.title ?? loaded.file.name}`);
+    const report = () =>
+      buildReport({
+        ...reportBase(ctx, f),
+        title,
+        subtitle: t.meta.title ?? loaded.file.name,
+        table: t,
+        inputs: reportInputs(loaded, sc ? [reportInput(sc.file, 'scenarios')] : []),
+        settings,
+        assumptions: prep.assumptions,
+        findings: [...loaded.checks, ...(prep.models.closure?.findings ?? []), ...link.findings, ...results.flatMap((r) => r.findings)],
+        sections,
+      });
+    const writers = reportWriters(report);
+    return deliver(
+      ctx,
+      {
+        json: () => JSON.parse(writers.json!() as string),
+        text: () => '',
+        writers,
+      },
+      plan,
+      f,
+    );
+  } finally {
+    bar.stop();
+  }
+}

@@ -1,0 +1,178 @@
+/**
+ * `ripplewise requirements --make FILE --use FILE --kind KIND --out FILE.csv`: supply-use (make
+ * and use) tables to direct or total requirements, written as a wide matrix (codes in the first
+ * column and in the header row). A stable contract that scripts rely on (see README.md).
+ */
+import type { Command } from 'commander';
+import { InputError } from '../../../engine/errors';
+import { sortFindings } from '../../../engine/findings';
+import type { RequirementsKind, Technology } from '../../../engine/supply-use';
+import { REQUIREMENTS_KINDS, supplyUse } from '../../../engine/supply-use';
+import type { TableSummary } from '../../report/model';
+import { buildReport, checksSection, matrixSection, setting } from '../../report/model';
+import type { CommonFlags } from '../common';
+import { examples, numberOption, outputOptions, reportBase } from '../common';
+import type { CliContext } from '../context';
+import { styles } from '../context';
+import { UsageError } from '../errors';
+import { reportInput } from '../files';
+import type { Action } from '../main';
+import type { LabelledMatrix } from '../matrix-out';
+import { matrixJson, matrixWriters } from '../matrix-out';
+import { list } from '../model-options';
+import { deliver, planOutputs } from '../output';
+import { progress } from '../progress';
+import { loadSupplyUse } from '../supply-use-input';
+import { blanksOption } from '../table-input';
+import { CAUTION_LINE, findingsText } from '../text';
+
+interface Flags extends CommonFlags {
+  make?: string;
+  use?: string;
+  kind?: string;
+  scrap?: string;
+  technology?: string;
+  valueAdded?: string;
+  finalDemand?: string;
+  ignore?: string;
+  makeSheet?: string;
+  useSheet?: string;
+  makeValueColumn?: string;
+  useValueColumn?: string;
+  blanks?: string;
+}
+
+const FORMATS = ['csv', 'tsv', 'xlsx', 'json', 'html'] as const;
+
+export const KIND_TEXT: Record<RequirementsKind, { title: string; about: string; corner: string }> = {
+  direct: { title: 'Direct requirements (commodity by industry)', about: 'Each commodity (row) an industry (column) buys per unit of its output: B = U ĝ⁻¹.', corner: 'commodity/industry' },
+  'commodity-by-commodity': { title: 'Total requirements, commodity by commodity', about: 'The output of each commodity (row), direct and indirect, per unit of final demand for each commodity (column).', corner: 'commodity/commodity' },
+  'industry-by-commodity': { title: 'Total requirements, industry by commodity', about: 'The output of each industry (row), direct and indirect, per unit of final demand for each commodity (column).', corner: 'industry/commodity' },
+  'industry-by-industry': { title: 'Total requirements, industry by industry', about: 'The output of each industry (row), direct and indirect, per unit of final demand for the output of each industry (column).', corner: 'industry/industry' },
+};
+
+export function register(p: Command, run: (a: Action, json: boolean) => void): void {
+  const cmd = p
+    .command('requirements')
+    .summary('Make and use tables to direct or total requirements (wide CSV)')
+    .description('Supply-use (make and use) tables to direct or total requirements, written as a wide matrix: codes in the first column and in the header row.')
+    .requiredOption('--make <file>', 'the make (supply) table: industries × commodities, a sheet or a long file')
+    .requiredOption('--use <file>', 'the use table: commodities × industries with final-demand columns and value-added rows, a sheet or a long file')
+    .requiredOption('-k, --kind <kind>', REQUIREMENTS_KINDS.join('|'))
+    .option('--scrap <code>', 'the commodity code of scrap and second-hand goods (its output is taken out of market shares)')
+    .option('--technology <assumption>', 'industry (default: market shares) or commodity (needs as many industries as commodities)')
+    .option('--value-added <patterns>', 'codes of value-added rows of the use table, comma-separated patterns such as V*,T* (default: V* and the usual labels)')
+    .option('--final-demand <patterns>', 'codes of final-demand columns of the use table, such as F* (default: F* and the usual labels)')
+    .option('--ignore <patterns>', 'codes of rows or columns to leave out, comma-separated patterns')
+    .option('--make-sheet <name>', 'the sheet of the make workbook (default: the first with a table)')
+    .option('--use-sheet <name>', 'the sheet of the use workbook')
+    .option('--make-value-column <n>', 'the field of the make long file that holds the values, counted from 1 (default: detected)')
+    .option('--blanks <rule>', 'empty cells in the tables: error (default) or zero')
+    .option('--use-value-column <n>', 'the field of the use long file that holds the values, counted from 1 (default: detected)');
+  outputOptions(cmd, FORMATS, { locale: true });
+  examples(cmd, [
+    ['ripplewise requirements --make make.txt --use use.txt --kind industry-by-commodity --scrap S004 --out total.csv', 'long text files to a wide CSV'],
+    ['ripplewise requirements --make make.txt --use use.txt --use-value-column 5 --kind industry-by-industry --out ixi.csv', 'the value field given'],
+    ['ripplewise requirements --make su.xlsx --make-sheet Supply --use su.xlsx --use-sheet Use --kind direct --out B.xlsx', 'one workbook, two sheets'],
+    ['ripplewise requirements --make make.csv --use use.csv --kind commodity-by-commodity --value-added "V*,T*" --json', 'as JSON'],
+  ]);
+  cmd.action((f: Flags) => run((ctx) => action(ctx, f), !!f.json));
+}
+
+async function action(ctx: CliContext, f: Flags): Promise<number> {
+  const kind = f.kind as RequirementsKind;
+  if (!REQUIREMENTS_KINDS.includes(kind)) throw new UsageError(`--kind ${f.kind} is not known; choose one of ${REQUIREMENTS_KINDS.join(', ')}`, 'bad-kind');
+  if (f.technology !== undefined && f.technology !== 'industry' && f.technology !== 'commodity') throw new UsageError(`--technology must be industry or commodity; got '${f.technology}'`, 'bad-technology');
+  const makeValue = numberOption(f.makeValueColumn, '--make-value-column', { min: 1, integer: true });
+  const useValue = numberOption(f.useValueColumn, '--use-value-column', { min: 1, integer: true });
+  const blanks = blanksOption(f.blanks);
+  const plan = planOutputs(f, FORMATS);
+  const bar = progress(ctx, 'requirements', 3, f);
+  let loaded;
+  try {
+    bar.step('reading the make and use tables');
+    loaded = await loadSupplyUse(
+      ctx,
+      f.make!,
+      f.use!,
+      { make: { ...(f.makeSheet !== undefined ? { sheet: f.makeSheet } : {}), ...(makeValue !== undefined ? { valueColumn: makeValue } : {}) }, use: { ...(f.useSheet !== undefined ? { sheet: f.useSheet } : {}), ...(useValue !== undefined ? { valueColumn: useValue } : {}) } },
+      {
+        ...(f.scrap !== undefined ? { scrap: f.scrap } : {}),
+        ...(f.technology ? { technology: f.technology as Technology } : {}),
+        ...(f.valueAdded !== undefined ? { valueAdded: list(f.valueAdded)! } : {}),
+        ...(f.finalDemand !== undefined ? { finalDemand: list(f.finalDemand)! } : {}),
+        ...(f.ignore !== undefined ? { ignore: list(f.ignore)! } : {}),
+        ...(blanks ? { blanks } : {}),
+      },
+    );
+    bar.step('deriving the requirements');
+  } finally {
+    bar.stop();
+  }
+  const { read } = loaded;
+  const model = supplyUse(read.input);
+  const R = model.requirements(kind);
+  const ax = model.axes(kind);
+  const findings = sortFindings([...read.findings, ...model.findings]);
+  if (findings.some((x) => x.severity === 'error')) throw new InputError('supply-use-errors', `the make and use tables cannot be used: ${findings.filter((x) => x.severity === 'error').map((x) => x.message).join('; ')}`);
+  const k = KIND_TEXT[kind];
+  const unit = kind === 'direct' ? 'per unit of industry output' : 'per unit of final demand';
+  const m: LabelledMatrix = { title: k.title, about: k.about, rows: ax.rows, cols: ax.cols, matrix: R, unit, corner: k.corner };
+  const settings = [
+    setting('kind', 'Requirements', kind, 'given'),
+    setting('technology', 'Technology assumption', model.technology, f.technology ? 'given' : 'default'),
+    setting('scrap', 'Scrap commodity', f.scrap ?? null, f.scrap ? 'given' : 'default', f.scrap ? undefined : 'No scrap adjustment'),
+    setting('makeValueColumn', 'Make: value field', (read.mappings.make.valueField as number | undefined) ?? null, makeValue !== undefined ? 'given' : 'guessed'),
+    setting('useValueColumn', 'Use: value field', (read.mappings.use.valueField as number | undefined) ?? null, useValue !== undefined ? 'given' : 'guessed'),
+  ];
+  const summary: TableSummary = {
+    title: 'Make and use tables',
+    moneyUnit: 'the money unit of the make and use tables',
+    sectors: model.industries.codes.length,
+    finalDemand: read.finalDemand.axis.codes.map((code, i) => ({ code, label: read.finalDemand.axis.labels[i]! })),
+    valueAdded: read.valueAdded.axis.codes.map((code, i) => ({ code, label: read.valueAdded.axis.labels[i]! })),
+    satellites: [],
+    hasImports: false,
+    invented: false,
+    notes: [`${model.industries.codes.length} industries and ${model.commodities.codes.length} commodities.`],
+  };
+  const inputs = [reportInput(loaded.make.file, 'make', f.makeSheet), reportInput(loaded.use.file, 'use', f.useSheet)];
+  const report = () =>
+    buildReport({
+      ...reportBase(ctx, f),
+      title: k.title,
+      tableSummary: summary,
+      inputs,
+      settings,
+      assumptions: [
+        model.technology === 'industry'
+          ? 'Industry technology: each industry has one input structure whatever it makes, and commodities are supplied in fixed market shares (D = V̄ q̂⁻¹)' + (f.scrap ? `, with the output of scrap ('${f.scrap}') taken out of the market shares (W = (I − p̂)⁻¹ D).` : '.')
+          : 'Commodity technology: each commodity has one input structure whichever industry makes it.',
+        'Coefficients are fixed: no substitution, no economies of scale, no capacity limits.',
+      ],
+      findings,
+      sections: [matrixSection({ id: `requirements-${kind}`, title: k.title, about: k.about, rows: ax.rows, cols: ax.cols, matrix: R, unit, corner: k.corner, sheet: 'Requirements' }), checksSection(findings)],
+    });
+  const about = { 'Make file': loaded.make.file.name, 'Make SHA-256': loaded.make.file.sha256, 'Use file': loaded.use.file.name, 'Use SHA-256': loaded.use.file.sha256, Technology: model.technology, Scrap: f.scrap ?? 'none', Cautions: CAUTION_LINE };
+  return deliver(
+    ctx,
+    {
+      json: () => ({
+        kind,
+        technology: model.technology,
+        scrap: f.scrap ?? null,
+        make: { file: loaded.make.file.name, sha256: loaded.make.file.sha256, shape: loaded.make.shape, valueField: read.mappings.make.valueField ?? null },
+        use: { file: loaded.use.file.name, sha256: loaded.use.file.sha256, shape: loaded.use.shape, valueField: read.mappings.use.valueField ?? null },
+        ...matrixJson(m),
+        findings,
+      }),
+      text: (colour) => {
+        const s = styles(colour);
+        return `${k.title}: ${R.rows} × ${R.cols} (${model.industries.codes.length} industries, ${model.commodities.codes.length} commodities, ${model.technology} technology${f.scrap ? `, scrap ${f.scrap}` : ''})\n${findings.length ? `${findingsText(findings, colour)}\n` : ''}${s.dim('Write the matrix with --out FILE.csv (or .tsv, .xlsx, .json, .html).')}\n`;
+      },
+      writers: matrixWriters(m, report, about),
+    },
+    plan,
+    f,
+  );
+}

@@ -1,0 +1,112 @@
+/**
+ * Files in and out: an input is a path or `-` (standard input), read whole (src/io's `readPath`,
+ * with its size limit), with its SHA-256 (node:crypto) for the report; an output is a path or `-` (standard output), its format from
+ * the extension or `--format`.
+ */
+import { createHash } from 'node:crypto';
+import { mkdir, stat, writeFile } from 'node:fs/promises';
+import { basename, dirname, extname } from 'node:path';
+import { checkBytes, limitsOf } from '../io/limits';
+import { readPath } from '../io/node';
+import type { ReportInputFile } from '../report/model';
+import type { CliContext } from './context';
+import { absolute } from './context';
+import { UsageError } from './errors';
+
+export interface InputFile {
+  /** The name as given (`-` for standard input). */
+  name: string;
+  /** The absolute path, or undefined for standard input. */
+  path?: string;
+  bytes: Uint8Array;
+  sha256: string;
+}
+
+export function sha256Hex(bytes: Uint8Array): string {
+  return createHash('sha256').update(bytes).digest('hex');
+}
+
+/** Read an input file whole (or standard input for `-`), with a clear error for a missing file. */
+export async function readInput(ctx: CliContext, name: string, role: string): Promise<InputFile> {
+  if (name === '-') {
+    if (ctx.stdin.isTTY) throw new UsageError(`the ${role} is '-' (standard input), but standard input is a terminal`, 'stdin-tty', 'Pipe the file in, as in: ripplewise check - < table.csv');
+    const chunks: Uint8Array[] = [];
+    const max = limitsOf(undefined).maxBytes;
+    let total = 0;
+    for await (const c of ctx.stdin) {
+      const b = typeof c === 'string' ? new TextEncoder().encode(c) : c;
+      total += b.length;
+      checkBytes(total, max, 'standard input');
+      chunks.push(b);
+    }
+    const bytes = concat(chunks);
+    if (!bytes.length) throw new UsageError(`the ${role} on standard input is empty`, 'empty-input');
+    return { name, bytes, sha256: sha256Hex(bytes) };
+  }
+  const path = absolute(ctx, name);
+  let info;
+  try {
+    info = await stat(path);
+  } catch (e) {
+    if ((e as NodeJS.ErrnoException).code === 'ENOENT') {
+      throw new UsageError(`the ${role} file '${name}' does not exist`, 'missing-file', `Check the name and the folder (looked in ${dirname(path)})`);
+    }
+    throw e;
+  }
+  if (info.isDirectory()) throw new UsageError(`the ${role} '${name}' is a folder, not a file`, 'not-a-file');
+  const bytes = await readPath(path);
+  return { name, path, bytes, sha256: sha256Hex(bytes) };
+}
+
+function concat(chunks: Uint8Array[]): Uint8Array {
+  let n = 0;
+  for (const c of chunks) n += c.length;
+  const out = new Uint8Array(n);
+  let o = 0;
+  for (const c of chunks) {
+    out.set(c, o);
+    o += c.length;
+  }
+  return out;
+}
+
+/** An input as a report states it. */
+export function reportInput(f: InputFile, role: string, sheet?: string): ReportInputFile {
+  const r: ReportInputFile = { role, name: f.name === '-' ? '(standard input)' : basename(f.name), sha256: f.sha256, bytes: f.bytes.length };
+  if (sheet !== undefined) r.sheet = sheet;
+  return r;
+}
+
+export type OutputFormat = 'csv' | 'tsv' | 'xlsx' | 'json' | 'html';
+export const OUTPUT_FORMATS: readonly OutputFormat[] = ['csv', 'tsv', 'xlsx', 'json', 'html'];
+
+const EXTENSIONS: Record<string, OutputFormat> = { '.csv': 'csv', '.tsv': 'tsv', '.txt': 'csv', '.xlsx': 'xlsx', '.json': 'json', '.html': 'html', '.htm': 'html' };
+
+/** The format of an output: `--format` when given, else from the file's extension. */
+export function outputFormat(out: string | undefined, format: string | undefined, allowed: readonly OutputFormat[]): OutputFormat {
+  if (format !== undefined) {
+    const f = format.toLowerCase() as OutputFormat;
+    if (!allowed.includes(f)) throw new UsageError(`--format ${format} is not available here; choose one of ${allowed.join(', ')}`, 'bad-format');
+    return f;
+  }
+  if (out === undefined || out === '-') throw new UsageError('writing to standard output needs --format', 'no-format', `Add --format ${allowed.join('|')}`);
+  const ext = extname(out).toLowerCase();
+  const f = EXTENSIONS[ext];
+  if (!f) throw new UsageError(`cannot tell the format of '${out}' from its extension '${ext || '(none)'}'`, 'bad-format', `Use a file ending in ${allowed.map((a) => `.${a}`).join(', ')}, or give --format`);
+  if (!allowed.includes(f)) throw new UsageError(`'${out}': ${f.toUpperCase()} output is not available here; choose one of ${allowed.join(', ')}`, 'bad-format');
+  return f;
+}
+
+/** Write text or bytes to a file (creating its folder) or to standard output for `-`. */
+export async function writeOutput(ctx: CliContext, out: string, data: string | Uint8Array, format: OutputFormat): Promise<{ name: string; bytes: number }> {
+  const bytes = typeof data === 'string' ? new TextEncoder().encode(data) : data;
+  if (out === '-') {
+    if (format === 'xlsx' && ctx.stdout.isTTY) throw new UsageError('will not write an XLSX workbook to a terminal', 'binary-to-tty', 'Give --out FILE.xlsx, or redirect standard output to a file');
+    ctx.stdout.write(bytes);
+    return { name: '-', bytes: bytes.length };
+  }
+  const path = absolute(ctx, out);
+  await mkdir(dirname(path), { recursive: true });
+  await writeFile(path, bytes);
+  return { name: out, bytes: bytes.length };
+}

@@ -1,0 +1,106 @@
+/**
+ * The `ripplewise` command: one subcommand per file in ./commands. `main(argv, ctx)` returns the
+ * exit code (0 success, 1 the table failed its checks, 2 a usage or input error) and never
+ * throws; bin/ripplewise.mjs sets it as the process's exit code.
+ */
+import { Command, CommanderError } from 'commander';
+import { TOOL } from './common';
+import type { CliContext } from './context';
+import { processContext, styles, useColour } from './context';
+import { EXIT_OK, EXIT_USAGE, errorReport } from './errors';
+import { jsonText } from './output';
+import { register as aggregate } from './commands/aggregate';
+import { register as check } from './commands/check';
+import { register as coefficients } from './commands/coefficients';
+import { register as convert } from './commands/convert';
+import { register as extract } from './commands/extract';
+import { register as impact } from './commands/impact';
+import { register as linkages } from './commands/linkages';
+import { register as multipliers } from './commands/multipliers';
+import { register as price } from './commands/price';
+import { register as report } from './commands/report';
+import { register as requirements } from './commands/requirements';
+
+/** A command's action: it returns its exit code. */
+export type Action = (ctx: CliContext) => Promise<number>;
+
+export function program(ctx: CliContext, run: (a: Action, json: boolean) => void): Command {
+  const p = new Command('ripplewise');
+  p.description(
+    'Input-output economics on your own machine: check tables, derive coefficients and total requirements, multipliers, scenario impacts, linkages, prices, extraction, and self-contained reports.',
+  )
+    .version(TOOL.version, '-V, --version', 'print the version')
+    .helpOption('-h, --help', 'show help')
+    .showSuggestionAfterError(true)
+    .exitOverride()
+    .configureOutput({
+      writeOut: (s) => void ctx.stdout.write(s),
+      writeErr: (s) => void ctx.stderr.write(s),
+      getOutHasColors: () => useColour(ctx, ctx.stdout),
+      getErrHasColors: () => useColour(ctx, ctx.stderr),
+      outputError: (s, write) => write(`${styles(useColour(ctx, ctx.stderr)).red('error:')} ${s.replace(/^error: /, '')}`),
+    })
+    .addHelpText(
+      'after',
+      `
+Exit codes: 0 success, 1 the table failed its checks, 2 a usage or input error.
+Every command takes --json for machine-readable output; '-' reads standard input or writes standard output.
+Results rest on fixed coefficients, no capacity limits, gross (not net) effects; they are not a forecast.
+Have a qualified economist review them and follow local guidance first.
+
+Examples:
+  $ ripplewise check table.csv
+  $ ripplewise multipliers table.xlsx --sheet IO --json
+  $ ripplewise impact table.csv --scenario scenarios.json --out report.html
+  $ ripplewise requirements --make make.txt --use use.txt --kind industry-by-commodity --out total.csv
+`,
+    );
+  for (const r of [check, coefficients, requirements, multipliers, impact, linkages, price, extract, report, convert, aggregate]) r(p, run);
+  return p;
+}
+
+/** Run the command line; returns the exit code. */
+export async function main(argv: readonly string[], ctx: CliContext = processContext()): Promise<number> {
+  let action: Action | undefined;
+  let json = argv.includes('--json');
+  const p = program(ctx, (a, j) => {
+    action = a;
+    json = j;
+  });
+  try {
+    await p.parseAsync([...argv], { from: 'user' });
+  } catch (e) {
+    if (e instanceof CommanderError) {
+      if (e.code === 'commander.helpDisplayed' || e.code === 'commander.version') return EXIT_OK;
+      // Help shown because no subcommand was given: a usage error.
+      if (e.code === 'commander.help') return e.exitCode === 0 ? EXIT_OK : EXIT_USAGE;
+      if (e.code === 'commander.executeSubCommandAsync') return EXIT_USAGE;
+      // Commander has printed its message already.
+      if (json) ctx.stdout.write(jsonText({ error: { code: e.code.replace(/^commander\./, ''), message: e.message.replace(/^error: /, ''), exitCode: EXIT_USAGE } }));
+      return EXIT_USAGE;
+    }
+    return fail(ctx, e, json);
+  }
+  if (!action) {
+    // No subcommand: show the help on standard error, as a usage error.
+    ctx.stderr.write(p.helpInformation());
+    return EXIT_USAGE;
+  }
+  try {
+    return await action(ctx);
+  } catch (e) {
+    return fail(ctx, e, json);
+  }
+}
+
+function fail(ctx: CliContext, e: unknown, json: boolean): number {
+  const r = errorReport(e);
+  const s = styles(useColour(ctx, ctx.stderr));
+  ctx.stderr.write(`${s.red('error:')} ${r.message}\n`);
+  if (r.hint) ctx.stderr.write(`${s.dim('hint:')} ${r.hint}\n`);
+  if (r.findings) {
+    for (const f of r.findings.filter((x) => x.severity === 'error')) ctx.stderr.write(`  ${s.red('error')}   ${f.code}: ${f.message}\n`);
+  }
+  if (json) ctx.stdout.write(jsonText({ error: r }));
+  return r.exitCode;
+}

@@ -1,0 +1,110 @@
+/**
+ * Reading a table for a command, through src/io: JSON (a table as src/io writes it, or a plain
+ * table object), a CSV, TSV or XLSX sheet, wide or long, with the layout detected and a mapping
+ * JSON to override it. A Ripplewise project file is accepted too (its table is used). The file's
+ * bytes and SHA-256 come along for the report.
+ */
+import type { Finding } from '../../engine/findings';
+import type { Table } from '../../engine/table';
+import { makeTable } from '../../engine/table';
+import type { MappingInput } from '../io/index';
+import { parseMapping, readTableFile } from '../io/index';
+import { parseJson } from '../project/json';
+import { PROJECT_FORMAT, readProject } from '../project/project';
+import type { CliContext } from './context';
+import { UsageError } from './errors';
+import type { InputFile } from './files';
+import { readInput } from './files';
+
+export type InputFormat = 'json' | 'csv' | 'tsv' | 'xlsx';
+export const INPUT_FORMATS: readonly InputFormat[] = ['json', 'csv', 'tsv', 'xlsx'];
+
+export interface TableFlags {
+  sheet?: string;
+  mapping?: string;
+  inputFormat?: string;
+  shape?: string;
+  blanks?: string;
+}
+
+/** --blanks error|zero, checked. */
+export function blanksOption(v: string | undefined): 'error' | 'zero' | undefined {
+  if (v === undefined) return undefined;
+  if (v !== 'error' && v !== 'zero') throw new UsageError(`--blanks must be error or zero; got '${v}'`, 'bad-blanks');
+  return v;
+}
+
+export interface LoadedTable {
+  table: Table;
+  file: InputFile;
+  /** Findings of the reader (layout detection, coercions it reported). */
+  findings: Finding[];
+  /** Other files read (the mapping). */
+  extra: { role: string; file: InputFile }[];
+  /** The layout mapping the reader used (pass it back with --mapping to read the file the same way). */
+  mapping?: unknown;
+  shape?: 'wide' | 'long' | 'json';
+  sheet?: string;
+}
+
+/** A sheet name, or a 1-based sheet number. */
+export function sheetOption(s: string | undefined): string | number | undefined {
+  if (s === undefined) return undefined;
+  return /^\d+$/.test(s.trim()) ? Number(s.trim()) : s;
+}
+
+/** Read a mapping file given with --mapping. */
+export async function loadMapping(ctx: CliContext, name: string | undefined): Promise<{ mapping?: MappingInput; file?: InputFile }> {
+  if (name === undefined) return {};
+  const file = await readInput(ctx, name, 'mapping');
+  return { mapping: parseMapping(new TextDecoder('utf-8').decode(file.bytes), name), file };
+}
+
+function checkInputFormat(given: string | undefined): InputFormat | undefined {
+  if (given === undefined) return undefined;
+  const g = given.toLowerCase() as InputFormat;
+  if (!INPUT_FORMATS.includes(g)) throw new UsageError(`--input-format ${given} is not known; choose one of ${INPUT_FORMATS.join(', ')}`, 'bad-input-format');
+  return g;
+}
+
+/** A name for src/io that carries the format when the user gave one (standard input has no extension). */
+function ioName(f: InputFile, format: InputFormat | undefined): string {
+  const base = f.name === '-' ? 'standard input' : f.name;
+  return format ? `${base}${base.toLowerCase().endsWith(`.${format}`) ? '' : `.${format}`}` : base;
+}
+
+export async function loadTable(ctx: CliContext, name: string, flags: TableFlags = {}): Promise<LoadedTable> {
+  const format = checkInputFormat(flags.inputFormat);
+  const blanks = blanksOption(flags.blanks);
+  if (flags.shape !== undefined && flags.shape !== 'wide' && flags.shape !== 'long') throw new UsageError(`--shape must be wide or long; got '${flags.shape}'`, 'bad-shape');
+  const { mapping, file: mappingFile } = await loadMapping(ctx, flags.mapping);
+  const file = await readInput(ctx, name, 'table');
+  const extra = mappingFile ? [{ role: 'mapping', file: mappingFile }] : [];
+  const looksJson = format === 'json' || (format === undefined && firstChar(file.bytes) === '{');
+  if (looksJson) {
+    if (flags.sheet !== undefined) throw new UsageError('--sheet applies to XLSX workbooks; this table is JSON', 'sheet-not-xlsx');
+    const text = new TextDecoder('utf-8').decode(file.bytes);
+    const head = parseJson(text, name) as { format?: unknown };
+    if (head && typeof head === 'object' && head.format === PROJECT_FORMAT) {
+      return { table: makeTable(readProject(text, name).table), file, findings: [], extra, shape: 'json' };
+    }
+  }
+  const sheet = sheetOption(flags.sheet);
+  const r = await readTableFile(file.bytes, {
+    file: ioName(file, format),
+    ...(sheet !== undefined ? { sheet } : {}),
+    ...(format === 'tsv' ? { delimiter: '\t' as const } : {}),
+    ...(mapping ? { mapping } : {}),
+    ...(flags.shape ? { shape: flags.shape as 'wide' | 'long' } : {}),
+    ...(blanks ? { blanks, long: { blanks } } : {}),
+  });
+  const out: LoadedTable = { table: r.table, file, findings: r.findings, extra, mapping: r.mapping, shape: r.shape };
+  if (flags.sheet !== undefined) out.sheet = flags.sheet;
+  return out;
+}
+
+function firstChar(b: Uint8Array): string {
+  let i = b[0] === 0xef && b[1] === 0xbb && b[2] === 0xbf ? 3 : 0;
+  while (i < b.length && (b[i] === 0x20 || b[i] === 0x09 || b[i] === 0x0a || b[i] === 0x0d)) i++;
+  return String.fromCharCode(b[i] ?? 0);
+}
