@@ -8,7 +8,8 @@
  * the cells are nonzero), and a share τⱼ (about `tradeShare`) from other regions, where the
  * cells are few (so that the whole table has about `density` nonzero cells) and weaker, with
  * the same sector elsewhere favoured. Final demand f > 0 is drawn by sector size, output
- * solves x = (I − A)⁻¹ f (power series with its error bound), then Z = A x̂, final demand is
+ * solves x = (I − A)⁻¹ f (power series with its error bound, or GMRES when
+ * the column sums come near 1), then Z = A x̂, final demand is
  * set to x − Z i (rows balance to rounding) and value added to x − i′Z (columns balance to
  * rounding), split into named columns and rows. A jobs satellite is drawn per unit of output.
  *
@@ -16,7 +17,7 @@
  * const t = syntheticTable({ regions: 3, sectors: 10, seed: 7 }); // 30 sectors, balanced
  */
 import { InputError } from './errors';
-import { csrOperator, powerSeries } from './linalg/iterative';
+import { csrOperator, gmres, powerSeries } from './linalg/iterative';
 import type { CSR } from './linalg/sparse';
 import { csrTranspose } from './linalg/sparse';
 import type { Table } from './table';
@@ -199,7 +200,13 @@ export function syntheticTable(options: SyntheticOptions): Table {
     const r = Math.floor(j / S);
     f[j] = 100 * sectorSize[j % S]! * (0.5 + rand()) * (1 + 0.5 * Math.sin(r + 1));
   }
-  const sol = powerSeries(csrOperator(A), f, { tolerance: 1e-15, maxIterations: 20_000, onFailure: 'report' });
+  // The series while it is quick (column sums well below 1), GMRES otherwise.
+  const hi = (options.coefficientSum ?? [0.25, 0.65])[1];
+  const op = csrOperator(A);
+  const sol =
+    Math.log(1e-15) / Math.log(hi) <= 200
+      ? powerSeries(op, f, { tolerance: 1e-15, maxIterations: 20_000, onFailure: 'report' })
+      : gmres(op, f, { tolerance: 1e-14, maxIterations: 5000, onFailure: 'report' });
   if (!sol.converged && sol.residual > 1e-12) {
     throw new InputError('bad-option', `the synthetic coefficients are too close to non-productive (residual ${sol.residual.toExponential(2)}); lower coefficientSum`);
   }

@@ -16,6 +16,8 @@ export interface LargeCaseRequest {
   /** Share of nonzero cells (default 0.06). */
   density?: number;
   seed?: number;
+  /** Range of the column sums of A (default [0.25, 0.65]); near 1 makes the series slow. */
+  coefficientSum?: [number, number];
   options?: LargeOptions;
 }
 
@@ -59,7 +61,13 @@ function summary(s: LargeSolution): SolveSummary {
 
 export function runLargeCase(req: LargeCaseRequest, now: () => number = () => performance.now()): LargeCaseResult {
   const g0 = now();
-  const t = syntheticTable({ regions: req.regions, sectors: req.sectors, density: req.density ?? 0.06, seed: req.seed ?? 1 });
+  const t = syntheticTable({
+    regions: req.regions,
+    sectors: req.sectors,
+    density: req.density ?? 0.06,
+    seed: req.seed ?? 1,
+    ...(req.coefficientSum ? { coefficientSum: req.coefficientSum } : {}),
+  });
   const g1 = now();
   const n = t.x.length;
   // One scenario: a demand change in 50 sectors of the first region.
