@@ -69,6 +69,8 @@ interface Pair {
   /** The first matched row below, and the first matched column to the right. */
   firstRow: number;
   firstCol: number;
+  /** The cell where the code row and code column cross says 'code'. */
+  headed: boolean;
 }
 
 function codeAt(g: Grid, r: number, c: number): string {
@@ -119,10 +121,10 @@ function matchPairs(g: Grid): Pair[] {
         if (below < firstRow) firstRow = below;
         if (j < firstCol) firstCol = j;
       }
-      if (seen.size) pairs.push({ row: h, col: c, score: seen.size, textScore: text, meanLen: len / seen.size, firstRow, firstCol });
+      if (seen.size) pairs.push({ row: h, col: c, score: seen.size, textScore: text, meanLen: len / seen.size, firstRow, firstCol, headed: /^codes?$/i.test(codeAt(g, h, c)) });
     }
   }
-  pairs.sort((a, b) => b.textScore - a.textScore || b.score - a.score || a.meanLen - b.meanLen || a.row - b.row || a.col - b.col);
+  pairs.sort((a, b) => Number(b.headed) - Number(a.headed) || b.textScore - a.textScore || b.score - a.score || a.meanLen - b.meanLen || a.row - b.row || a.col - b.col);
   return pairs;
 }
 
@@ -194,7 +196,7 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
       const b0 = best;
       const partners = pairs.filter((p) => fits(p) && p !== b0 && p.score >= b0.score * 0.9 && p.row < b0.firstRow && p.col < b0.firstCol && Math.abs(p.row - b0.row) <= 3 && Math.abs(p.col - b0.col) <= 3 && p.row !== b0.row && p.col !== b0.col);
       const shorter = partners.filter((p) => p.meanLen < b0.meanLen).sort((a, b) => a.meanLen - b.meanLen || b.score - a.score)[0];
-      if (shorter) {
+      if (shorter && !b0.headed) {
         best = shorter;
         if (labelColumn === undefined) labelColumn = b0.col;
         if (labelRow === undefined) labelRow = b0.row;
@@ -275,7 +277,7 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
   // The first data column: the first column right of the leading ones with a header code.
   const firstCodeCol = (() => {
     if (codeRow === null) return (codeColumn ?? -1) + 1;
-    for (let j = (codeColumn ?? -1) + 1; j < C; j++) if (g.kind(codeRow!, j) !== EMPTY && !/^(codes?|labels?|units?|names?|titles?|descriptions?)$/i.test(codeAt(g, codeRow!, j))) {
+    for (let j = (codeColumn ?? -1) + 1; j < C; j++) if (g.kind(codeRow!, j) !== EMPTY && !/^(codes?|labels?|units?|roles?|names?|titles?|descriptions?)$/i.test(codeAt(g, codeRow!, j))) {
       const numbersBelow = probeRows.slice(0, 50).some((r) => g.kind(r, j) === NUMBER);
       const textBelow = probeRows.slice(0, 50).filter((r) => g.kind(r, j) === TEXT).length;
       if (numbersBelow || textBelow < Math.max(1, probeRows.slice(0, 50).length * 0.5)) return j;
@@ -283,6 +285,15 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
     return C;
   })();
 
+  if (labelColumn === undefined && codeRow !== null) {
+    // A leading column headed 'label' (or 'name', 'title', 'description') holds the labels.
+    for (let c = 0; c < Math.min(firstCodeCol, MAX_LEAD_COLS); c++) {
+      if (c !== codeColumn && /^(labels?|names?|titles?|descriptions?)$/i.test(codeAt(g, codeRow, c))) {
+        labelColumn = c;
+        break;
+      }
+    }
+  }
   if (labelColumn === undefined) {
     labelColumn = null;
     let bestScore = 0;
@@ -290,7 +301,7 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
       if (c === codeColumn) continue;
       const s = textShare(g, probeRows, c);
       if (!probeRows.length || s.text < probeRows.length * 0.5) continue;
-      if (codeRow !== null && /^units?$|^unit of measure/i.test(codeAt(g, codeRow, c))) continue;
+      if (codeRow !== null && /^units?$|^unit of measure|^roles?$/i.test(codeAt(g, codeRow, c))) continue;
       const score = s.text / probeRows.length + (codeColumn !== null && Math.abs(c - codeColumn) === 1 ? 0.1 : 0) + s.distinct / Math.max(1, s.filled) * 0.2;
       if (score > bestScore) {
         bestScore = score;
@@ -330,19 +341,16 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
         if (/^roles?$/i.test(codeAt(g, h, codeColumn ?? 0))) continue;
         let text = 0;
         let nums = 0;
-        const distinct = new Set<string>();
+        let merged = 0;
         for (const j of codeCols) {
           if (g.kind(h, j) === NUMBER) nums++;
-          else {
-            const t = g.mergedText(h, j);
-            if (t) {
-              text++;
-              distinct.add(t);
-            }
-          }
+          else if (g.text(h, j)) text++;
+          const m = g.mergeAt(h, j);
+          if (m && m.right > m.left) merged++;
         }
-        // Labels name each column; a group header over several columns (merged, or repeated) does not.
-        if (codeCols.length && text >= codeCols.length * 0.5 && nums <= codeCols.length * 0.1 && distinct.size >= text * 0.8) {
+        // Labels name each column; a group header merged over several columns does not.
+        const headedRow = codeColumn !== null && /^codes?$/i.test(codeAt(g, codeRow, codeColumn)) && h === codeRow + 1;
+        if (codeCols.length && text + nums >= codeCols.length * 0.5 && (nums <= text || headedRow) && merged < 2) {
           const d = Math.abs(h - codeRow);
           if (d < bestD) {
             bestD = d;
@@ -354,14 +362,15 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
   }
 
   // Codes or labels? If the code column reads like labels and the label column like codes, swap.
-  if (mapping.codeColumn === undefined && mapping.labelColumn === undefined && codeColumn !== null && labelColumn !== null) {
+  const headedCode = (c: number | null) => c !== null && [codeRow, labelRow].some((h) => typeof h === 'number' && /^codes?$/i.test(codeAt(g, h, c)));
+  if (mapping.codeColumn === undefined && mapping.labelColumn === undefined && codeColumn !== null && labelColumn !== null && !headedCode(codeColumn)) {
     const a = textShare(g, probeRows, codeColumn);
     const b = textShare(g, probeRows, labelColumn);
     if (a.meanLen > b.meanLen * 1.5 && a.spaces > a.filled * 0.5 && b.spaces < b.filled * 0.2 && b.distinct >= b.filled * 0.95) {
       [codeColumn, labelColumn] = [labelColumn, codeColumn];
     }
   }
-  if (mapping.codeRow === undefined && mapping.labelRow === undefined && codeRow !== null && labelRow !== null) {
+  if (mapping.codeRow === undefined && mapping.labelRow === undefined && codeRow !== null && labelRow !== null && !(codeColumn !== null && /^codes?$/i.test(codeAt(g, codeRow, codeColumn)))) {
     const lens = (h: number) => {
       let len = 0;
       let n = 0;
@@ -412,6 +421,12 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
     const row = g.rows[r]!;
     for (let j = leadMax + 1; j < row.kinds.length; j++) if (row.kinds[j] !== EMPTY) data++;
     const key = code || normalizeCode(label);
+    // A note written as a key and its text ('note', '...').
+    if (keyCol !== null && /^notes?:?$/i.test(key) && data === 0) {
+      noteRows.push(r);
+      notes.push(normalizeLabel(labelColumn !== null && labelColumn !== keyCol ? g.text(r, labelColumn) : rowText(g, r).replace(/^notes?:?\s*/i, '')));
+      continue;
+    }
     if (!key) {
       if (data > 0 && [...Array(row.kinds.length).keys()].some((j) => j > leadMax && row.kinds[j] === NUMBER)) unlabelled.push(r);
       else {

@@ -257,6 +257,8 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
   let header = options.header ?? (m.headerLine === undefined ? undefined : m.headerLine !== null);
   const first = lines[0]!;
   const isNum = (t: string) => analyseNumber(t.trim()) !== undefined;
+  const named = first.filter((t) => ROW_NAMES.test(t.trim()) || COL_NAMES.test(t.trim()) || VALUE_NAMES.test(t.trim())).length;
+  if (header === undefined && named >= 2) header = true;
   if (header === undefined) {
     if (value !== undefined) header = first[value] !== undefined && first[value]!.trim() !== '' && !isNum(first[value]!);
     else {
@@ -840,7 +842,7 @@ export class StreamingLong {
     if (this.encoding === 'utf-16le' || this.encoding === 'utf-16be') this.transcode = { dec: new TextDecoder(this.encoding), enc: new TextEncoder() };
     if (this.encoding === 'windows-1252') this.findings.push({ code: 'encoding-guessed', severity: 'warning', message: `file ${file} is not UTF-8; it was read as Windows-1252`, where: { file } });
     const sample = new TextDecoder(this.encoding).decode(head.subarray(0, 131072)).replace(/\r\n?/g, '\n');
-    this.delimiter = this.options.delimiter ?? detectDelimiter(sample) ?? ',';
+    this.delimiter = this.options.delimiter ?? detectDelimiter(sample, final) ?? ',';
     this.sink = new LongSink(file, this.options, this.transcode ? 'utf-8' : this.encoding);
     this.scanner = new CsvScanner(this.delimiter.charCodeAt(0), this.sink, file);
     this.feed(head);

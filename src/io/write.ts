@@ -15,7 +15,7 @@ import { InputError } from '../../engine/errors';
 import type { Matrix } from '../../engine/linalg/matrix';
 import type { Axis, Table, TableMeta } from '../../engine/table';
 import { toPlain } from '../../engine/table';
-import { neutraliseText } from './escape';
+import { neutraliseText, protectText } from './escape';
 import { type Cell, numberText } from './grid';
 import { loadExcel } from './xlsx';
 
@@ -107,7 +107,7 @@ export function tableCells(t: Table): Cell[][] {
     for (let j = 0; j < n; j++) r.push(checkFinite(s.values[j]!, `satellite '${s.code}'`, s.code, t.sectors.codes[j]!));
     rows.push(r);
   }
-  for (const note of t.meta.notes ?? []) rows.push([note]);
+  for (const note of t.meta.notes ?? []) rows.push(['note', note]);
   return rows;
 }
 
@@ -127,7 +127,7 @@ export function matrixCells(m: LabelledMatrix): Cell[][] {
     for (let j = 0; j < C; j++) r.push(checkFinite(data[i * C + j]!, m.title ?? 'matrix', m.rows.codes[i]!, m.cols.codes[j]!));
     rows.push(r);
   }
-  for (const note of m.notes ?? []) rows.push([note]);
+  for (const note of m.notes ?? []) rows.push(['note', note]);
   return rows;
 }
 
@@ -147,10 +147,10 @@ export function cellsToCsv(rows: readonly (readonly Cell[])[], options: CsvWrite
       const c = row[j];
       if (c === null || c === undefined) cells.push('');
       else if (typeof c === 'number') {
-        const s = numberText(c);
+        const s = c === 0 ? '0' : numberText(c);
         cells.push(dec === ',' ? s.replace('.', ',') : s);
       } else {
-        const s = neutraliseText(c);
+        const s = protectText(c, dec);
         cells.push(needsQuote.test(s) || looksNumeric(s) ? `"${s.replace(/"/g, '""')}"` : s);
       }
     }
@@ -185,6 +185,8 @@ export interface SheetSpec {
   freezeColumns?: number;
   /** Column widths in characters. */
   widths?: number[];
+  /** Also protect texts that would read back as numbers under another decimal mark (the table writers set it). */
+  protectNumbers?: boolean;
 }
 
 const SHEET_NAME_BAD = /[\\/?*[\]:]/;
@@ -208,9 +210,9 @@ export async function writeWorkbook(sheets: SheetSpec[]): Promise<Uint8Array> {
         if (c === null || c === undefined || c === '') return;
         const cell = r.getCell(j + 1);
         if (typeof c === 'number') {
-          cell.value = c;
+          cell.value = c === 0 ? 0 : c;
           if (s.numberFormat) cell.numFmt = s.numberFormat;
-        } else cell.value = neutraliseText(c);
+        } else cell.value = s.protectNumbers ? protectText(c, '.') : neutraliseText(c);
       });
     });
     s.widths?.forEach((w, j) => (ws.getColumn(j + 1).width = w));
@@ -232,7 +234,7 @@ export interface XlsxTableOptions {
 export async function writeTableXlsx(t: Table, options: XlsxTableOptions = {}): Promise<Uint8Array> {
   const hasUnits = t.satellites.length > 0;
   const sheets: SheetSpec[] = [
-    { name: options.sheet ?? 'Table', rows: tableCells(t), numberFormat: options.numberFormat ?? '#,##0.0##', freezeColumns: hasUnits ? 4 : 3, widths: [10, 36] },
+    { name: options.sheet ?? 'Table', rows: tableCells(t), numberFormat: options.numberFormat ?? '#,##0.0##', freezeColumns: hasUnits ? 4 : 3, widths: [10, 36], protectNumbers: true },
   ];
   if (options.coefficients) {
     const n = t.sectors.codes.length;
@@ -243,6 +245,7 @@ export async function writeTableXlsx(t: Table, options: XlsxTableOptions = {}): 
       rows: matrixCells({ rows: t.sectors, cols: t.sectors, matrix: { rows: n, cols: n, data }, title: 'Technical coefficients A', description: 'Input from each row sector per unit of output of each column sector (A = Z x̂⁻¹); fixed coefficients, no capacity limits' }),
       numberFormat: '0.000000',
       widths: [10, 36],
+      protectNumbers: true,
     });
   }
   return writeWorkbook(sheets);
@@ -250,7 +253,7 @@ export async function writeTableXlsx(t: Table, options: XlsxTableOptions = {}): 
 
 /** A labelled matrix as an XLSX workbook of one sheet. */
 export async function writeMatrixXlsx(m: LabelledMatrix, options: { sheet?: string; numberFormat?: string } = {}): Promise<Uint8Array> {
-  return writeWorkbook([{ name: options.sheet ?? 'Matrix', rows: matrixCells(m), numberFormat: options.numberFormat ?? '0.000000', widths: [10, 36] }]);
+  return writeWorkbook([{ name: options.sheet ?? 'Matrix', rows: matrixCells(m), numberFormat: options.numberFormat ?? '0.000000', widths: [10, 36], protectNumbers: true }]);
 }
 
 /** A table as JSON (its plain form, with a format marker). Numbers round-trip exactly. */

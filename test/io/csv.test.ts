@@ -12,6 +12,9 @@ import { gridSignature, readCsv, readCsvStream } from '../../src/io/csv';
 import { readTable } from '../../src/io/tables';
 import { readLongCsv } from '../../src/io/long';
 
+/** FUZZ_SCALE=10 runs ten times as many cases (for a longer search; the default keeps the file fast). */
+const SCALE = Number(process.env.FUZZ_SCALE ?? 1);
+
 const enc = new TextEncoder();
 const both = (text: string, opts: Record<string, unknown> = {}) => {
   const a = readCsv(enc.encode(text), { file: 't.csv', parser: 'papaparse', ...opts });
@@ -160,7 +163,7 @@ describe('the byte scanner and papaparse agree (fast-check)', () => {
           expect(b).toBeInstanceOf(InputError);
         } else expect(b).toBe(a);
       }),
-      { numRuns: 1500 },
+      { numRuns: 1500 * SCALE },
     );
   });
 
@@ -182,7 +185,7 @@ describe('the byte scanner and papaparse agree (fast-check)', () => {
         }
         expect(streamed).toBe(whole);
       }),
-      { numRuns: 400 },
+      { numRuns: 400 * SCALE },
     );
   });
 });
@@ -204,7 +207,7 @@ describe('fuzzing the CSV path: no uncaught exception, ever', () => {
         });
         isInputError(() => readLongCsv(bytes, { file: 'z.csv' }));
       }),
-      { numRuns: 1500 },
+      { numRuns: 1500 * SCALE },
     );
   });
 
@@ -217,7 +220,7 @@ describe('fuzzing the CSV path: no uncaught exception, ever', () => {
         isInputError(() => readTable(readCsv(text, { file: 'd.csv' }).grid, { kind: 'coefficients' }));
         isInputError(() => readLongCsv(text, { file: 'd.csv' }));
       }),
-      { numRuns: 1500 },
+      { numRuns: 1500 * SCALE },
     );
   });
 });
