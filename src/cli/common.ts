@@ -5,10 +5,6 @@ import { checks } from '../../engine/checks';
 import type { Finding } from '../../engine/findings';
 import { hasErrors } from '../../engine/findings';
 import { checkLocale } from '../report/format';
-import { writeCsv } from '../report/csv';
-import { writeHtml } from '../report/html';
-import { writeJson } from '../report/json';
-import { writeXlsx } from '../report/xlsx';
 import type { ReportInputFile, ReportParts } from '../report/model';
 import type { CliContext } from './context';
 import { reportDate } from './context';
@@ -107,15 +103,18 @@ export function tableLine(t: LoadedTable): string {
   return `${m.title ?? t.file.name}: ${t.table.sectors.codes.length} sectors${m.invented ? ' (INVENTED DATA)' : ''}`;
 }
 
-/** The four report writers over one report, built once on first use. */
+/**
+ * The four report writers over one report, built once on first use. Each writer is loaded when
+ * it is used (the HTML writer brings d3 for the charts, the XLSX writer exceljs).
+ */
 export function reportWriters(make: () => import('../report/model').Report): Partial<Record<OutputFormat, () => Promise<string | Uint8Array> | string>> {
   let r: import('../report/model').Report | undefined;
   const get = () => (r ??= make());
   return {
-    json: () => writeJson(get()),
-    html: () => writeHtml(get()),
-    xlsx: () => writeXlsx(get()),
-    csv: () => writeCsv(get()),
+    json: async () => (await import('../report/json')).writeJson(get()),
+    html: async () => (await import('../report/html')).writeHtml(get()),
+    xlsx: async () => (await import('../report/xlsx')).writeXlsx(get()),
+    csv: async () => (await import('../report/csv')).writeCsv(get()),
   };
 }
 

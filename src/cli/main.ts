@@ -9,6 +9,7 @@ import type { CliContext } from './context';
 import { processContext, styles, useColour } from './context';
 import { EXIT_OK, EXIT_USAGE, errorReport } from './errors';
 import { jsonText } from './output';
+import { terminalSafe } from './text';
 import { register as aggregate } from './commands/aggregate';
 import { register as check } from './commands/check';
 import { register as coefficients } from './commands/coefficients';
@@ -34,8 +35,8 @@ export function program(ctx: CliContext, run: (a: Action, json: boolean) => void
     .showSuggestionAfterError(true)
     .exitOverride()
     .configureOutput({
-      writeOut: (s) => void ctx.stdout.write(s),
-      writeErr: (s) => void ctx.stderr.write(s),
+      writeOut: (s) => void ctx.stdout.write(terminalSafe(s)),
+      writeErr: (s) => void ctx.stderr.write(terminalSafe(s)),
       getOutHasColors: () => useColour(ctx, ctx.stdout),
       getErrHasColors: () => useColour(ctx, ctx.stderr),
       outputError: (s, write) => write(`${styles(useColour(ctx, ctx.stderr)).red('error:')} ${s.replace(/^error: /, '')}`),
@@ -96,10 +97,10 @@ export async function main(argv: readonly string[], ctx: CliContext = processCon
 function fail(ctx: CliContext, e: unknown, json: boolean): number {
   const r = errorReport(e);
   const s = styles(useColour(ctx, ctx.stderr));
-  ctx.stderr.write(`${s.red('error:')} ${r.message}\n`);
-  if (r.hint) ctx.stderr.write(`${s.dim('hint:')} ${r.hint}\n`);
+  ctx.stderr.write(`${s.red('error:')} ${terminalSafe(r.message)}\n`);
+  if (r.hint) ctx.stderr.write(`${s.dim('hint:')} ${terminalSafe(r.hint)}\n`);
   if (r.findings) {
-    for (const f of r.findings.filter((x) => x.severity === 'error')) ctx.stderr.write(`  ${s.red('error')}   ${f.code}: ${f.message}\n`);
+    for (const f of r.findings.filter((x) => x.severity === 'error')) ctx.stderr.write(`  ${s.red('error')}   ${terminalSafe(`${f.code}: ${f.message}`)}\n`);
   }
   if (json) ctx.stdout.write(jsonText({ error: r }));
   return r.exitCode;

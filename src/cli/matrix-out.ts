@@ -8,7 +8,6 @@ import type { Matrix } from '../../engine/linalg/matrix';
 import type { Axis } from '../../engine/table';
 import type { Cell } from '../io/grid';
 import { cellsToCsv, writeMatrixJson, writeWorkbook } from '../io/write';
-import { writeHtml } from '../report/html';
 import type { Report } from '../report/model';
 import type { OutputFormat } from './files';
 import type { Writer } from './output';
@@ -60,7 +59,7 @@ export function matrixWriters(m: LabelledMatrix, report: () => Report, about: Re
     tsv: () => matrixCsv(m, '\t'),
     xlsx: () => matrixXlsx(m, about),
     json: () => writeMatrixJson({ rows: m.rows, cols: m.cols, matrix: m.matrix, title: m.title, description: `${m.about} Unit: ${m.unit}.` }, 1) + '\n',
-    html: () => writeHtml(report()),
+    html: async () => (await import('../report/html')).writeHtml(report()),
   };
 }
 

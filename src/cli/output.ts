@@ -9,6 +9,7 @@ import { styles, useColour } from './context';
 import { UsageError } from './errors';
 import type { OutputFormat } from './files';
 import { outputFormat, writeOutput } from './files';
+import { terminalSafe } from './text';
 
 export type Writer = () => Promise<string | Uint8Array> | string | Uint8Array;
 
@@ -74,10 +75,10 @@ export async function deliver(ctx: CliContext, outcome: Outcome, plan: PlannedOu
     const doc = written.length && body && typeof body === 'object' && !Array.isArray(body) ? { ...(body as object), written } : body;
     ctx.stdout.write(jsonText(doc));
   } else if (!plan.length) {
-    ctx.stdout.write(outcome.text(useColour(ctx, ctx.stdout)));
+    ctx.stdout.write(terminalSafe(outcome.text(useColour(ctx, ctx.stdout))));
   } else {
     const s = styles(useColour(ctx, ctx.stderr));
-    for (const w of written) if (w.file !== '-') ctx.stderr.write(`${s.green('wrote')} ${w.file} (${w.format.toUpperCase()}, ${w.bytes.toLocaleString('en')} bytes)\n`);
+    for (const w of written) if (w.file !== '-') ctx.stderr.write(`${s.green('wrote')} ${terminalSafe(w.file)} (${w.format.toUpperCase()}, ${w.bytes.toLocaleString('en')} bytes)\n`);
   }
   return outcome.exitCode ?? 0;
 }

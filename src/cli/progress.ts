@@ -2,7 +2,6 @@
  * Progress on long work: a cli-progress bar on standard error when it is a terminal, nothing at
  * all in a pipe or a file (and nothing under --json or CI=true either, where a bar is noise).
  */
-import cliProgress from 'cli-progress';
 import type { CliContext } from './context';
 import { useColour } from './context';
 
@@ -17,9 +16,10 @@ export interface Progress {
 
 const SILENT: Progress = { step() {}, update() {}, stop() {}, active: false };
 
-/** A progress bar of `total` steps, or a silent one when standard error is not a terminal. */
-export function progress(ctx: CliContext, title: string, total: number, o: { json?: boolean } = {}): Progress {
+/** A progress bar of `total` steps, or a silent one when standard error is not a terminal (cli-progress is loaded only then). */
+export async function progress(ctx: CliContext, title: string, total: number, o: { json?: boolean } = {}): Promise<Progress> {
   if (!ctx.stderr.isTTY || o.json || ctx.env.CI === 'true' || total < 1) return SILENT;
+  const cliProgress = ((await import('cli-progress')) as unknown as { default: typeof import('cli-progress') }).default;
   const colour = useColour(ctx, ctx.stderr);
   const bar = new cliProgress.SingleBar(
     {

@@ -2,7 +2,6 @@
 import type { Table } from '../../engine/table';
 import { moneyUnit } from '../../engine/table';
 import { writeTableCsv, writeTableJson, writeTableXlsx } from '../io/index';
-import { writeHtml } from '../report/html';
 import type { Report } from '../report/model';
 import type { OutputFormat } from './files';
 import type { Writer } from './output';
@@ -13,7 +12,7 @@ export function tableWriters(t: Table, report: () => Report, o: { coefficients?:
     tsv: () => writeTableCsv(t, { delimiter: '\t' }),
     xlsx: () => writeTableXlsx(t, { coefficients: o.coefficients === true }),
     json: () => writeTableJson(t, 1) + '\n',
-    html: () => writeHtml(report()),
+    html: async () => (await import('../report/html')).writeHtml(report()),
   };
 }
 

@@ -38,3 +38,12 @@ export function findingsText(findings: readonly Finding[], colour: boolean): str
 
 export const CAUTION_LINE =
   'Cautions: fixed coefficients, no capacity limits, gross not net effects, not a forecast; have a qualified economist review results and follow local guidance first.';
+
+/**
+ * Text bound for a terminal with the control characters of the data made visible (`\x1b`, `\x0d`):
+ * a label read from a file can then neither move the cursor, rewrite a line nor set a title. Our
+ * own colour codes (ESC [ digits m) are kept; line feeds and tabs too.
+ */
+export function terminalSafe(s: string): string {
+  return s.replace(/\u001b\[[0-9;]*m|[\u0000-\u0008\u000b-\u001f\u007f-\u009f]/g, (m) => (m.length > 1 ? m : `\\x${m.charCodeAt(0).toString(16).padStart(2, '0')}`));
+}

@@ -4,7 +4,7 @@
  * formats, the household closure and its report, NO_COLOR and progress bars.
  */
 import { createHash } from 'node:crypto';
-import { readFileSync, existsSync } from 'node:fs';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { Matrix as MlMatrix, inverse } from 'ml-matrix';
 import Papa from 'papaparse';
@@ -277,6 +277,22 @@ describe('terminal behaviour', () => {
     expect(pipe.stdout).not.toMatch(/\u001b\[/);
     const err = await run(['check', 'missing.csv'], { stderrTTY: true, env: { NO_COLOR: '1' } });
     expect(err.stderr).not.toMatch(/\u001b\[/);
+  });
+
+  it('labels from a file cannot drive the terminal: control characters are shown, not sent', async () => {
+    const table = structuredClone(TWO_SECTORS);
+    table.sectors.labels = ['Agri\u001b]0;title\u0007culture', 'Manu\u001b[2J\rfacturing'];
+    const file = join(fx.dir, 'controls.json');
+    writeFileSync(file, JSON.stringify(table));
+    for (const argv of [['multipliers', file], ['linkages', file], ['extract', file]]) {
+      const r = await run(argv, { stdoutTTY: true });
+      expect(r.code).toBe(0);
+      expect(r.stdout).toContain('Agri\\x1b]0;title\\x07culture');
+      expect(r.stdout).not.toMatch(/[\u0007\r]|\u001b\]|\u001b\[2J/);
+    }
+    const e = await run(['multipliers', file, '--measure', 'no\u001b[2Jsuch'], { stderrTTY: true });
+    expect(e.code).toBe(2);
+    expect(e.stderr).not.toMatch(/\u001b\[2J/);
   });
 
   it('a progress bar on standard error only when it is a terminal', async () => {

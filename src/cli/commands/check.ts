@@ -5,12 +5,8 @@ import type { Finding } from '../../../engine/findings';
 import { hasErrors, sortFindings } from '../../../engine/findings';
 import { moneyUnit } from '../../../engine/table';
 import { buildReport, checksSection, describeTable } from '../../report/model';
-import { writeCsv } from '../../report/csv';
-import { writeHtml } from '../../report/html';
-import { writeJson } from '../../report/json';
-import { writeXlsx } from '../../report/xlsx';
 import type { CommonFlags } from '../common';
-import { examples, numberOption, outputOptions, reportBase, reportInputs, tableLine, tableOptions } from '../common';
+import { examples, numberOption, outputOptions, reportBase, reportInputs, reportWriters, tableLine, tableOptions } from '../common';
 import { styles } from '../context';
 import { EXIT_CHECKS } from '../errors';
 import type { Action } from '../main';
@@ -84,7 +80,7 @@ async function action(ctx: import('../context').CliContext, name: string, f: Fla
         const head = `${tableLine(loaded)}\n${failed ? s.red('FAILED') : s.green('passed')}: ${count('error')} errors, ${count('warning')} warnings, ${count('note')} notes\n`;
         return `${head}${found.length ? `${findingsText(found, colour)}\n` : ''}`;
       },
-      writers: { json: () => writeJson(report()), html: () => writeHtml(report()), xlsx: () => writeXlsx(report()), csv: () => writeCsv(report()) },
+      writers: reportWriters(report),
       exitCode: failed ? EXIT_CHECKS : 0,
     },
     plan,

@@ -78,7 +78,7 @@ export function impactJson(r: ResolvedScenario, im: Impact) {
 async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   if (!f.scenario) throw new UsageError('impact needs --scenario FILE', 'missing-option');
   const plan = planOutputs(f, FORMATS);
-  const bar = progress(ctx, 'impact', 5, f);
+  const bar = await progress(ctx, 'impact', 5, f);
   try {
     bar.step('reading the table');
     const loaded = await checkedTable(ctx, name, f);

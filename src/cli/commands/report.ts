@@ -70,7 +70,7 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
   if (!plan.length && !f.json) throw new UsageError('report writes files: give --out FILE.html (or .xlsx, .json, .csv), or --format', 'no-output', 'For a quick look in the terminal, use multipliers, impact or linkages');
   const top = numberOption(f.tornadoTop, '--tornado-top', { min: 1, max: 100, integer: true }) ?? 10;
   const percent = numberOption(f.tornadoPercent, '--tornado-percent', { min: 0.001, max: 100 }) ?? 10;
-  const bar = progress(ctx, 'report', 6, f);
+  const bar = await progress(ctx, 'report', 6, f);
   try {
     bar.step('reading the table');
     const loaded = await checkedTable(ctx, name, f);
@@ -125,8 +125,9 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
     sections.push(checksSection(loaded.checks, { condition: prep.models.open.condition() }));
     bar.stop();
     const title = f.title ?? (sc ? (sc.resolved.length === 1 ? `Impact of ${sc.resolved[0]!.name}` : `Impacts of ${sc.resolved.length} scenarios`) : `Input-output report: ${t.meta.title ?? loaded.file.name}`);
+    let built: ReturnType<typeof buildReport> | undefined;
     const report = () =>
-      buildReport({
+      (built ??= buildReport({
         ...reportBase(ctx, f),
         title,
         subtitle: t.meta.title ?? loaded.file.name,
@@ -136,14 +137,13 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
         assumptions: prep.assumptions,
         findings: [...loaded.checks, ...(prep.models.closure?.findings ?? []), ...link.findings, ...results.flatMap((r) => r.findings)],
         sections,
-      });
-    const writers = reportWriters(report);
+      }));
     return deliver(
       ctx,
       {
-        json: () => JSON.parse(writers.json!() as string),
+        json: () => report(),
         text: () => '',
-        writers,
+        writers: reportWriters(report),
       },
       plan,
       f,

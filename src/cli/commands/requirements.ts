@@ -87,7 +87,7 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
   const useValue = numberOption(f.useValueColumn, '--use-value-column', { min: 1, integer: true });
   const blanks = blanksOption(f.blanks);
   const plan = planOutputs(f, FORMATS);
-  const bar = progress(ctx, 'requirements', 3, f);
+  const bar = await progress(ctx, 'requirements', 3, f);
   let loaded;
   try {
     bar.step('reading the make and use tables');
