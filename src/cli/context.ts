@@ -24,10 +24,18 @@ export interface CliContext {
   now(): Date;
 }
 
+let pipeGuard = false;
+
 export function processContext(): CliContext {
   // A reader that stops early (`| head`) closes the pipe: stop quietly rather than crash.
-  for (const s of [process.stdout, process.stderr]) {
-    if (s.listenerCount('error') === 0) s.on('error', (e: NodeJS.ErrnoException) => (e.code === 'EPIPE' ? process.exit(process.exitCode ?? 0) : undefined));
+  if (!pipeGuard) {
+    pipeGuard = true;
+    for (const s of [process.stdout, process.stderr]) {
+      s.on('error', (e: NodeJS.ErrnoException) => {
+        if (e.code === 'EPIPE') process.exit(typeof process.exitCode === 'number' ? process.exitCode : 0);
+        throw e;
+      });
+    }
   }
   return {
     stdout: process.stdout,
