@@ -4,6 +4,7 @@
  * JSON to override it. A Ripplewise project file is accepted too (its table is used). The file's
  * bytes and SHA-256 come along for the report.
  */
+import { InputError } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
 import type { Table } from '../../engine/table';
 import { makeTable } from '../../engine/table';
@@ -57,7 +58,13 @@ export function sheetOption(s: string | undefined): string | number | undefined 
 export async function loadMapping(ctx: CliContext, name: string | undefined): Promise<{ mapping?: MappingInput; file?: InputFile }> {
   if (name === undefined) return {};
   const file = await readInput(ctx, name, 'mapping');
-  return { mapping: parseMapping(new TextDecoder('utf-8').decode(file.bytes), name), file };
+  try {
+    return { mapping: parseMapping(new TextDecoder('utf-8').decode(file.bytes), name), file };
+  } catch (e) {
+    // Name the file in every message about it.
+    if (e instanceof InputError && !e.message.includes(name)) throw new InputError(e.code, `${name}: ${e.message}`, { ...e.where, file: name });
+    throw e;
+  }
 }
 
 function checkInputFormat(given: string | undefined): InputFormat | undefined {
