@@ -183,18 +183,23 @@ export function classify(block: Block, options: AssembleOptions): Classified {
   // cannot be a sector: after the sectors it is final demand (or value added).
   const symmetric = kind === 'flows' || kind === 'coefficients';
   if (symmetric) {
+    let sectorBefore = false;
     block.cols.forEach((e, j) => {
       const x = cr[j]!;
-      if (x.role === undefined && !rowCodes.has(e.code) && block.cols.slice(0, j).some((f) => rowCodes.has(f.code))) {
+      if (x.role === undefined && !rowCodes.has(e.code) && sectorBefore) {
         x.role = 'final-demand';
         x.why = 'its code names no row, after the sector columns';
       }
+      if (rowCodes.has(e.code)) sectorBefore = true;
     });
     let afterOutputRow = false;
+    let sectorAbove = false;
     block.rows.forEach((e, i) => {
       const x = rr[i]!;
       if (x.role === 'output') afterOutputRow = true;
-      if (x.role === undefined && !colCodes.has(e.code) && block.rows.slice(0, i).some((f) => colCodes.has(f.code))) {
+      const above = sectorAbove;
+      if (colCodes.has(e.code)) sectorAbove = true;
+      if (x.role === undefined && !colCodes.has(e.code) && above) {
         x.role = afterOutputRow ? 'satellite' : 'value-added';
         x.why = afterOutputRow ? 'after the output row' : 'its code names no column, after the sector rows';
       }

@@ -12,9 +12,11 @@ export const QUOTED = 1;
 export const ESCAPED = 2;
 
 export interface FieldSink {
-  /** One field: bytes [start, end) of buf (without the surrounding quotes); flags QUOTED, ESCAPED. */
-  field(buf: Uint8Array, start: number, end: number, flags: number): void;
-  endRow(): void;
+  /**
+   * One row of `n` fields: field k is bytes [fields[3k], fields[3k+1]) of buf (without the
+   * surrounding quotes), with flags fields[3k+2] (QUOTED, ESCAPED). The arrays are reused.
+   */
+  row(buf: Uint8Array, fields: Int32Array, n: number): void;
 }
 
 export class CsvScanner {
@@ -65,10 +67,7 @@ export class CsvScanner {
   }
 
   private emit(nf: number, b: Uint8Array): void {
-    const fs = this.fs;
-    const sink = this.sink;
-    for (let i = 0; i < nf; i++) sink.field(b, fs[3 * i]!, fs[3 * i + 1]!, fs[3 * i + 2]!);
-    sink.endRow();
+    this.sink.row(b, this.fs, nf);
     this.rows++;
   }
 
@@ -272,4 +271,41 @@ export function fieldText(b: Uint8Array, s: number, e: number, escaped: boolean,
   if (escaped) t = t.replace(/""/g, '"');
   if (t.indexOf('\r') >= 0) t = t.replace(/\r\n?/g, '\n');
   return t;
+}
+
+/**
+ * Whether the text of a plain number (bytes [s, e), already read by `scanNumber` with a '.'
+ * mark) is exactly how JavaScript writes that number, so that it need not be kept: no sign but
+ * '-', no exponent, no leading or trailing zeros, at most 15 significant digits, and a size
+ * JavaScript writes without an exponent. When unsure, false.
+ */
+export function isShortestText(b: Uint8Array, s: number, e: number): boolean {
+  let p = s;
+  if (b[p] === 45) p++;
+  if (p >= e) return false;
+  if (b[p] === 48 && p + 1 < e && b[p + 1] !== 46) return false; // a leading zero
+  let dot = -1;
+  let sig = 0;
+  let lead = true;
+  for (let i = p; i < e; i++) {
+    const c = b[i]!;
+    if (c === 46) {
+      if (dot >= 0) return false;
+      dot = i;
+      continue;
+    }
+    if (c < 48 || c > 57) return false;
+    if (lead && c === 48) continue;
+    lead = false;
+    sig++;
+  }
+  if (sig > 15) return false;
+  if (dot >= 0) {
+    if (dot === e - 1 || dot === p || b[e - 1] === 48) return false; // '5.', '.5', '1.50'
+    // JavaScript writes numbers below 1e-6 with an exponent.
+    let zeros = 0;
+    if (b[p] === 48) for (let i = dot + 1; i < e && b[i] === 48; i++) zeros++;
+    if (zeros >= 6) return false;
+  } else if (e - p > 21) return false;
+  return true;
 }

@@ -11,10 +11,12 @@
 import Papa from 'papaparse';
 import { cellRef, columnLetters, InputError, type Where } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
-import { CsvScanner, ESCAPED, type FieldSink, fieldText, numberScan, scanNumber } from './csv-scan';
+import { CsvScanner, ESCAPED, type FieldSink, fieldText, isShortestText, numberScan, scanNumber } from './csv-scan';
 import { decodeBytes, type Encoding, sniffBom } from './decode';
 import { restoreText } from './escape';
-import { EMPTY, Grid, GridBuilder, type GridRow, TEXT } from './grid';
+import { EMPTY, Grid, GridBuilder, type GridRow, TEXT, TEXT_ZONE_COLS, TEXT_ZONE_ROWS } from './grid';
+
+const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
 import { checkBytes, type Limits, limitsOf, tooManyCells } from './limits';
 import { type DecimalMark, type NumberConventions, type NumberOptions, NumberReader } from './numbers';
 
@@ -133,7 +135,67 @@ class ScanGridSink implements FieldSink {
     private readonly file: string,
   ) {}
 
-  field(b: Uint8Array, s: number, e: number, flags: number): void {
+  row(b: Uint8Array, fs: Int32Array, nf: number): void {
+    const builder = this.cells.builder;
+    // Past the first rows and columns (where codes and labels are), with the decimal point
+    // settled, plain numbers are read here in one pass; anything else goes to field().
+    const fastFrom = builder.row < TEXT_ZONE_ROWS || this.cells.numbers.decimal !== '.' ? nf : TEXT_ZONE_COLS;
+    for (let k = 0; k < nf; k++) {
+      let s = fs[3 * k]!;
+      let e = fs[3 * k + 1]!;
+      if (k >= fastFrom && fs[3 * k + 2] === 0) {
+        while (s < e && b[s] === 32) s++;
+        while (e > s && b[e - 1] === 32) e--;
+        if (s === e) {
+          builder.empty();
+          continue;
+        }
+        let p = s;
+        const neg = b[p] === 45;
+        if (neg) p++;
+        let m = 0;
+        let sig = 0;
+        let frac = 0;
+        let digits = 0;
+        let c = 0;
+        while (p < e) {
+          c = b[p]!;
+          if (c < 48 || c > 57) break;
+          if (m !== 0 || c !== 48) {
+            m = m * 10 + (c - 48);
+            sig++;
+          }
+          digits++;
+          p++;
+        }
+        if (p < e && c === 46) {
+          p++;
+          const f0 = p;
+          while (p < e) {
+            c = b[p]!;
+            if (c < 48 || c > 57) break;
+            if (m !== 0 || c !== 48) {
+              m = m * 10 + (c - 48);
+              sig++;
+            }
+            p++;
+          }
+          frac = p - f0;
+          if (frac === 0) p = -1;
+          digits += frac;
+        }
+        if (p === e && digits > 0 && sig <= 15 && frac <= 22) {
+          const v = frac ? m / POW10[frac]! : m;
+          builder.plainNumber(neg ? -v : v);
+          continue;
+        }
+      }
+      this.field(b, s, e, fs[3 * k + 2]!);
+    }
+    builder.endRow();
+  }
+
+  private field(b: Uint8Array, s: number, e: number, flags: number): void {
     while (s < e && (b[s] === 32 || b[s] === 9)) s++;
     while (e > s && (b[e - 1] === 32 || b[e - 1] === 9)) e--;
     const builder = this.cells.builder;
@@ -146,7 +208,7 @@ class ScanGridSink implements FieldSink {
         const v = scanNumber(b, s, e, dec === ',' ? 44 : 46);
         if (!Number.isNaN(v) && !(dec === undefined && numberScan.ambiguous)) {
           if (numberScan.decimalSeen && dec === undefined) numbers.see('.', builder.row, builder.col, fieldText(b, s, e, false));
-          if (builder.inTextZone) builder.number(v, fieldText(b, s, e, false));
+          if (builder.inTextZone && !(dec !== ',' && isShortestText(b, s, e))) builder.number(v, fieldText(b, s, e, false));
           else builder.number(v);
           return;
         }
@@ -164,10 +226,6 @@ class ScanGridSink implements FieldSink {
       );
     }
     this.cells.text(t);
-  }
-
-  endRow(): void {
-    this.cells.builder.endRow();
   }
 }
 

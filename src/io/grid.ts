@@ -207,6 +207,15 @@ export class GridBuilder {
     this.len++;
   }
 
+  /** A number with no text to keep (the fast path of the byte scanner). */
+  plainNumber(v: number): void {
+    if (this.len === this.vals.length) this.grow();
+    this.vals[this.len] = v;
+    this.kinds[this.len] = NUMBER;
+    this.last = this.len;
+    this.len++;
+  }
+
   number(v: number, text?: string): void {
     if (this.len === this.vals.length) this.grow();
     this.vals[this.len] = v;

@@ -82,7 +82,18 @@ function matchPairs(g: Grid): Pair[] {
   const R = g.rowCount;
   const C = g.colCount;
   const leadCols = Math.min(C, MAX_LEAD_COLS);
-  const headRows = Math.min(R, MAX_HEAD_ROWS);
+  // The header is above the numbers: look no further than a few rows past the first row of numbers.
+  let firstNumbers = R;
+  for (let r = 0; r < Math.min(R, MAX_HEAD_ROWS); r++) {
+    const row = g.rows[r]!;
+    let k = 0;
+    for (let c = 0; c < row.kinds.length && k < 2; c++) if (row.kinds[c] === NUMBER) k++;
+    if (k >= 2) {
+      firstNumbers = r;
+      break;
+    }
+  }
+  const headRows = Math.min(R, MAX_HEAD_ROWS, firstNumbers + 4);
   const rowTexts: string[][] = [];
   for (let h = 0; h < headRows; h++) {
     const t: string[] = new Array(C);

@@ -61,6 +61,7 @@ export interface LongTable {
 }
 
 const SAMPLE_LINES = 2000;
+const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
 const CHUNK = 1 << 20;
 
 const ROW_NAMES = /^(row|rows|from|origin|source|supplier|seller|producer|industry code|commodity code|i)(\s*code)?$/i;
@@ -79,10 +80,16 @@ class CodeTable {
   private vals: Int32Array = new Int32Array(256);
   private count = 0;
 
-  /** The index of the code spelled by bytes [s, e) (ASCII, trimmed), adding it if new. */
+  /** The index of the code spelled by bytes [s, e) (trimmed), adding it if new; -1 if the bytes are not ASCII. */
   lookupBytes(b: Uint8Array, s: number, e: number): number {
     let h = 2166136261;
-    for (let i = s; i < e; i++) h = Math.imul(h ^ b[i]!, 16777619);
+    let high = 0;
+    for (let i = s; i < e; i++) {
+      const c = b[i]!;
+      high |= c;
+      h = Math.imul(h ^ c, 16777619);
+    }
+    if (high & 128) return -1;
     const mask = this.keys.length - 1;
     let slot = (h >>> 0) & mask;
     const len = e - s;
@@ -355,6 +362,11 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
   return choice;
 }
 
+/** Whether the value is the last field needed (so a line that stops early has an empty value). */
+function valueLast(ch: FieldChoice): boolean {
+  return ch.value > ch.row && ch.value > ch.col;
+}
+
 function rangeText(xs: number[]): string {
   if (xs.length > 2 && xs.every((x, i) => i === 0 || x === xs[i - 1]! + 1)) return `${xs[0]}-${xs[xs.length - 1]}`;
   return xs.join(', ');
@@ -422,13 +434,21 @@ class Cells {
     this.colChunks.push(this.cur.subarray(0, this.fill) as Uint16Array | Uint32Array);
     this.valChunks.push(this.curV.subarray(0, this.fill));
     let run = 0;
+    let row = this.runs ? this.runRow[0]! : 0;
+    let nextStart = this.runs > 1 ? this.runStart[1]! : Infinity;
     let k = 0;
     for (let ch = 0; ch < this.colChunks.length; ch++) {
       const cs = this.colChunks[ch]!;
       const vs = this.valChunks[ch]!;
-      for (let o = 0; o < cs.length; o++, k++) {
-        while (run + 1 < this.runs && this.runStart[run + 1]! <= k) run++;
-        f(this.runRow[run]!, cs[o]!, vs[o]!, k);
+      const len = cs.length;
+      for (let o = 0; o < len; o++, k++) {
+        if (k >= nextStart) {
+          do run++;
+          while (run + 1 < this.runs && this.runStart[run + 1]! <= k);
+          row = this.runRow[run]!;
+          nextStart = run + 1 < this.runs ? this.runStart[run + 1]! : Infinity;
+        }
+        f(row, cs[o]!, vs[o]!, k);
       }
       this.colChunks[ch] = new Uint16Array(0);
       this.valChunks[ch] = new Float64Array(0);
@@ -519,7 +539,8 @@ class LongReader {
       return;
     }
     const need = Math.max(ch.row, ch.col, ch.value);
-    if (f.length <= need) this.short(f.length);
+    // A line that stops before its value (after both codes) has an empty value; shorter ones are short.
+    if (f.length <= Math.max(ch.row, ch.col) || (f.length <= need && !valueLast(ch))) this.short(f.length);
     const rt = f[ch.row]!.trim();
     const ct = f[ch.col]!.trim();
     if (!rt || !ct) this.missingCode(!rt ? ch.row : ch.col);
@@ -527,7 +548,7 @@ class LongReader {
     const c = this.cols.lookup(ct);
     if (ch.rowLabel !== undefined && f[ch.rowLabel]) this.label(this.rows.codes[r]!, f[ch.rowLabel]!);
     if (ch.colLabel !== undefined && f[ch.colLabel]) this.label(this.cols.codes[c]!, f[ch.colLabel]!);
-    this.valueText(f[ch.value]!.trim(), r, c);
+    this.valueText((f[ch.value] ?? '').trim(), r, c);
   }
 
   label(code: string, text: string): void {
@@ -642,9 +663,8 @@ class LongReader {
 /** The scanner sink: a sample of lines as text first, then straight from bytes. */
 class LongSink implements FieldSink {
   private sample: string[][] = [];
-  private fields: string[] = [];
   reader: LongReader | undefined;
-  private fs: Int32Array = new Int32Array(3 * 64);
+  private fs: Int32Array = new Int32Array(0);
   private nf = 0;
   private buf: Uint8Array = new Uint8Array(0);
   private readonly decoder: TextDecoder;
@@ -665,30 +685,17 @@ class LongSink implements FieldSink {
     }
   }
 
-  field(b: Uint8Array, s: number, e: number, flags: number): void {
+  row(b: Uint8Array, fs: Int32Array, nf: number): void {
     if (!this.reader) {
-      this.fields.push(this.text(b, s, e, flags, this.sample.length, this.fields.length));
-      return;
-    }
-    if (3 * this.nf + 3 > this.fs.length) {
-      const g = new Int32Array(this.fs.length * 2);
-      g.set(this.fs);
-      this.fs = g;
-    }
-    this.fs[3 * this.nf] = s;
-    this.fs[3 * this.nf + 1] = e;
-    this.fs[3 * this.nf + 2] = flags;
-    this.nf++;
-    this.buf = b;
-  }
-
-  endRow(): void {
-    if (!this.reader) {
-      this.sample.push(this.fields);
-      this.fields = [];
+      const fields: string[] = [];
+      for (let k = 0; k < nf; k++) fields.push(this.text(b, fs[3 * k]!, fs[3 * k + 1]!, fs[3 * k + 2]!, this.sample.length, k));
+      this.sample.push(fields);
       if (this.sample.length >= SAMPLE_LINES) this.start();
       return;
     }
+    this.buf = b;
+    this.fs = fs;
+    this.nf = nf;
     this.fast();
   }
 
@@ -721,6 +728,45 @@ class LongSink implements FieldSink {
     this.sample = [];
   }
 
+  /** The last row code's bytes and index: a long file lists many cells of one row in a run. */
+  private lastRow: Uint8Array = new Uint8Array(64);
+  private lastRowLen = -1;
+  private lastRowIndex = -1;
+
+  private code(field: number, table: CodeTable, isRow: boolean): number {
+    const r = this.reader!;
+    const b = this.buf;
+    const fs = this.fs;
+    let s = fs[3 * field]!;
+    let e = fs[3 * field + 1]!;
+    const flags = fs[3 * field + 2]!;
+    while (s < e && (b[s] === 32 || b[s] === 9)) s++;
+    while (e > s && (b[e - 1] === 32 || b[e - 1] === 9)) e--;
+    if (s === e) r.missingCode(field);
+    if (isRow && e - s === this.lastRowLen) {
+      const last = this.lastRow;
+      let same = true;
+      for (let i = 0; i < e - s; i++) if (last[i] !== b[s + i]) {
+        same = false;
+        break;
+      }
+      if (same) return this.lastRowIndex;
+    }
+    let v = flags & ESCAPED ? -1 : table.lookupBytes(b, s, e);
+    const ascii = v >= 0;
+    if (!ascii) {
+      const t = this.text(b, s, e, flags, r.record, field).trim();
+      if (!t) r.missingCode(field);
+      v = table.lookup(t);
+    }
+    if (isRow && ascii && e - s <= 64) {
+      this.lastRow.set(b.subarray(s, e));
+      this.lastRowLen = e - s;
+      this.lastRowIndex = v;
+    }
+    return v;
+  }
+
   private fast(): void {
     const r = this.reader!;
     const ch = r.choice;
@@ -734,31 +780,61 @@ class LongSink implements FieldSink {
       return;
     }
     const need = Math.max(ch.row, ch.col, ch.value);
-    if (nf <= need) r.short(nf);
-    const code = (field: number, table: CodeTable): number => {
-      let s = fs[3 * field]!;
-      let e = fs[3 * field + 1]!;
-      const flags = fs[3 * field + 2]!;
-      while (s < e && (b[s] === 32 || b[s] === 9)) s++;
-      while (e > s && (b[e - 1] === 32 || b[e - 1] === 9)) e--;
-      if (s === e) r.missingCode(field);
-      let ascii = !(flags & ESCAPED);
-      if (ascii) for (let i = s; i < e; i++) if (b[i]! >= 128) { ascii = false; break; }
-      if (ascii) return table.lookupBytes(b, s, e);
-      const t = this.text(b, s, e, flags, r.record, field).trim();
-      if (!t) r.missingCode(field);
-      return table.lookup(t);
-    };
-    const ri = code(ch.row, r.rows);
-    const ci = code(ch.col, r.cols);
+    if (nf <= Math.max(ch.row, ch.col) || (nf <= need && !valueLast(ch))) r.short(nf);
+    const ri = this.code(ch.row, r.rows, true);
+    const ci = this.code(ch.col, r.cols, false);
     if (ch.rowLabel !== undefined && !r.labelOf.has(r.rows.codes[ri]!)) r.label(r.rows.codes[ri]!, this.text(b, fs[3 * ch.rowLabel]!, fs[3 * ch.rowLabel + 1]!, fs[3 * ch.rowLabel + 2]!, r.record, ch.rowLabel));
     if (ch.colLabel !== undefined && !r.labelOf.has(r.cols.codes[ci]!)) r.label(r.cols.codes[ci]!, this.text(b, fs[3 * ch.colLabel]!, fs[3 * ch.colLabel + 1]!, fs[3 * ch.colLabel + 2]!, r.record, ch.colLabel));
-    let s = fs[3 * ch.value]!;
-    let e = fs[3 * ch.value + 1]!;
-    const flags = fs[3 * ch.value + 2]!;
+    const missing = nf <= ch.value;
+    let s = missing ? 0 : fs[3 * ch.value]!;
+    let e = missing ? 0 : fs[3 * ch.value + 1]!;
+    const flags = missing ? 0 : fs[3 * ch.value + 2]!;
     while (s < e && (b[s] === 32 || b[s] === 9)) s++;
     while (e > s && (b[e - 1] === 32 || b[e - 1] === 9)) e--;
     const dec = r.numbers.decimal;
+    if (dec === '.' && s < e && flags === 0) {
+      // The common case in one pass: [-]digits[.digits], at most 15 significant digits.
+      let p = s;
+      const neg = b[p] === 45;
+      if (neg) p++;
+      let m = 0;
+      let sig = 0;
+      let frac = 0;
+      let digits = 0;
+      let c = 0;
+      while (p < e) {
+        c = b[p]!;
+        if (c < 48 || c > 57) break;
+        if (m !== 0 || c !== 48) {
+          m = m * 10 + (c - 48);
+          sig++;
+        }
+        digits++;
+        p++;
+      }
+      if (p < e && c === 46) {
+        p++;
+        const f0 = p;
+        while (p < e) {
+          c = b[p]!;
+          if (c < 48 || c > 57) break;
+          if (m !== 0 || c !== 48) {
+            m = m * 10 + (c - 48);
+            sig++;
+          }
+          p++;
+        }
+        frac = p - f0;
+        if (frac === 0) p = -1;
+        digits += frac;
+      }
+      if (p === e && digits > 0 && sig <= 15 && frac <= 22) {
+        const v = frac ? m / POW10[frac]! : m;
+        r.add(ri, ci, neg ? -v : v);
+        r.record++;
+        return;
+      }
+    }
     if (s < e && !(flags & ESCAPED)) {
       const v = scanNumber(b, s, e, dec === ',' ? 44 : 46);
       if (v === v && !(dec === undefined && numberScan.ambiguous)) {
