@@ -64,7 +64,6 @@ describe.skipIf(!chromium)('the model views in Chromium', () => {
     await page.keyboard.press('ArrowDown');
     await expect.poll(() => page.locator('#heatmap-readout').textContent()).toMatch(/^Row 2, column 2: Fishing and aquaculture \(FISH\) → Fishing and aquaculture \(FISH\)/);
     await page.keyboard.press('+');
-    await expect(page.getByText('Zoom 1.5×')).toBeTruthy();
     await expect.poll(() => page.locator('.tools .muted').textContent()).toMatch(/Zoom 1\.5×/);
     await page.keyboard.press('0');
     await screenshot(page, 'views-coefficients');
@@ -196,7 +195,7 @@ describe.skipIf(!chromium)('the model views in Chromium', () => {
     const box = (await page.getByRole('application').boundingBox())!;
     await page.mouse.move(box.x + 300, box.y + 300);
     await page.mouse.wheel(0, -500);
-    await expect.poll(() => page.locator('.tools .muted').textContent()).not.toMatch(/Zoom 1×/);
+    await expect.poll(() => page.locator('.tools .muted').textContent()).not.toMatch(/Zoom 1\.0×/);
     await screenshot(page, 'views-coefficients-400');
   });
 

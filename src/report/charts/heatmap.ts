@@ -73,8 +73,6 @@ export function heatMap(input: HeatMapInput): HeatMapChart {
   const gy = 28 + codeH;
   const gridW = cols * cell;
   const gridH = rows * cell;
-  const width = Math.max(gx + gridW + 16, 320);
-  const height = gy + gridH + 70;
   let max = 0;
   let negatives = 0;
   let zeros = 0;
@@ -85,6 +83,10 @@ export function heatMap(input: HeatMapInput): HeatMapChart {
     if (v === 0) zeros++;
     max = Math.max(max, Math.abs(v));
   }
+  const note = `${input.unit}; square-root colour scale; empty cells are zero${negatives ? '; negative values in orange' : ''}`;
+  // Room for the grid and for the legend's note (about 5.6 pixels a character at 10 pixels).
+  const width = Math.max(gx + gridW + 16, gx + note.length * 5.6 + 16, 320);
+  const height = gy + gridH + 70;
   const parts: string[] = [];
   parts.push(el('rect', { x: gx, y: gy, width: gridW, height: gridH, fill: 'none', stroke: AXIS, 'stroke-width': 0.5, class: 'rw-grid' }));
   const titles = (input.titles ?? true) && rows * cols <= 3600;
@@ -121,7 +123,7 @@ export function heatMap(input: HeatMapInput): HeatMapChart {
   for (const f of [0, 0.25, 1]) {
     parts.push(text({ x: gx + Math.sqrt(f) * lw, y: ly + 24, 'text-anchor': f === 0 ? 'start' : f === 1 ? 'end' : 'middle', fill: AXIS, 'font-size': 10 }, fmt(f * max)));
   }
-  parts.push(text({ x: gx, y: ly + 40, fill: AXIS, 'font-size': 10 }, `${input.unit}; square-root colour scale; empty cells are zero${negatives ? '; negative values in orange' : ''}`));
+  parts.push(text({ x: gx, y: ly + 40, fill: AXIS, 'font-size': 10 }, note));
   const desc =
     `Heat map of ${rows} × ${cols} values (${input.unit}), largest ${fmt(max)}; ${zeros} cell${zeros === 1 ? ' is' : 's are'} zero` +
     (negatives ? `, ${negatives} negative` : '') +
