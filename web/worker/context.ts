@@ -18,8 +18,12 @@ export type Handler = (args: any, ctx: HandlerContext) => unknown | Promise<unkn
 export function yieldNow(): Promise<void> {
   return new Promise((resolve) => {
     const ch = new MessageChannel();
-    ch.port1.onmessage = () => resolve();
+    ch.port1.onmessage = () => {
+      ch.port1.close();
+      resolve();
+    };
     ch.port2.postMessage(0);
+    ch.port2.close();
   });
 }
 
