@@ -128,3 +128,5 @@ export { LargeLeontief, largeOutputMultipliers, largeImpact, LARGE_ABOUT } from 
 export type { LargeOptions, LargeSolution, LargeMethod } from './large';
 export { syntheticTable, syntheticCoefficients } from './synthetic';
 export type { SyntheticOptions } from './synthetic';
+export { aggregate, AGGREGATE_ABOUT } from './aggregate';
+export type { Concordance } from './aggregate';
