@@ -261,7 +261,7 @@ describe('fuzzing the CSV path: no uncaught exception, ever', () => {
         isInputError(() => readTable(readCsv(text, { file: 'd.csv' }).grid, { kind: 'coefficients' }));
         isInputError(() => readLongCsv(text, { file: 'd.csv' }));
       }),
-      { numRuns: 1500 * SCALE },
+      { numRuns: 700 * SCALE },
     );
   });
 });
