@@ -170,3 +170,184 @@ export function gemmSub(
     }
   }
 }
+
+// ---------------------------------------------------------------------------------------------
+// The narrow pieces of the LU (mirrored exactly by engine/linalg/lu.ts, which runs them in
+// JavaScript when the matrix is not in this memory): element operations only, in the same
+// order, so the bits agree.
+
+/**
+ * Factor columns c0..c1−1 on rows c0..n−1 of the n × n row-major matrix at element offset `a`,
+ * with partial pivoting: copy the panel to `buf` (rows × w doubles), factor it there (the next
+ * pivot search riding along each column update), write it back, apply the interchanges to the
+ * rest of each row, and store the pivot rows (0-based, global) as i32 at element offset `piv`.
+ * Returns LAPACK's info updated (the 1-based column of the first zero pivot, or `info`).
+ */
+export function panelBase(n: i32, c0: i32, c1: i32, a: i32, buf: i32, piv: i32, info: i32): i32 {
+  const w = c1 - c0;
+  const rows = n - c0;
+  const A = addr(a);
+  const B = addr(buf);
+  const P = (<usize>piv) << 2;
+  for (let i = 0; i < rows; i++) {
+    const src = A + (<usize>((c0 + i) * n + c0) << 3);
+    const dst = B + (<usize>(i * w) << 3);
+    for (let j = 0; j < w; j++) store<f64>(dst + (<usize>j << 3), load<f64>(src + (<usize>j << 3)));
+  }
+  let next = -1;
+  for (let k = 0; k < w; k++) {
+    let p = next;
+    if (p < 0) {
+      p = k;
+      let best = abs<f64>(load<f64>(B + (<usize>(k * w + k) << 3)));
+      for (let i = k + 1; i < rows; i++) {
+        const v = abs<f64>(load<f64>(B + (<usize>(i * w + k) << 3)));
+        if (v > best) {
+          best = v;
+          p = i;
+        }
+      }
+    }
+    next = -1;
+    store<i32>(P + (<usize>k << 2), c0 + p);
+    const rk = B + (<usize>(k * w) << 3);
+    if (p != k) {
+      const rp = B + (<usize>(p * w) << 3);
+      for (let j = 0; j < w; j++) {
+        const q = <usize>j << 3;
+        const t = load<f64>(rk + q);
+        store<f64>(rk + q, load<f64>(rp + q));
+        store<f64>(rp + q, t);
+      }
+    }
+    const d = load<f64>(rk + (<usize>k << 3));
+    if (d == 0.0) {
+      if (info == 0) info = c0 + k + 1;
+      continue;
+    }
+    const inv = 1.0 / d;
+    const k1 = k + 1;
+    if (k1 < w) {
+      let np = k1;
+      let best = -1.0;
+      for (let i = k1; i < rows; i++) {
+        const ri = B + (<usize>(i * w) << 3);
+        const l = load<f64>(ri + (<usize>k << 3)) * inv;
+        store<f64>(ri + (<usize>k << 3), l);
+        if (l != 0.0) {
+          for (let j = k1; j < w; j++) {
+            const q = <usize>j << 3;
+            store<f64>(ri + q, load<f64>(ri + q) - l * load<f64>(rk + q));
+          }
+        }
+        const v = abs<f64>(load<f64>(ri + (<usize>k1 << 3)));
+        if (i == k1) best = v;
+        else if (v > best) {
+          best = v;
+          np = i;
+        }
+      }
+      next = np;
+    } else {
+      for (let i = k1; i < rows; i++) {
+        const q = B + (<usize>(i * w + k) << 3);
+        store<f64>(q, load<f64>(q) * inv);
+      }
+    }
+  }
+  for (let i = 0; i < rows; i++) {
+    const dst = A + (<usize>((c0 + i) * n + c0) << 3);
+    const src = B + (<usize>(i * w) << 3);
+    for (let j = 0; j < w; j++) store<f64>(dst + (<usize>j << 3), load<f64>(src + (<usize>j << 3)));
+  }
+  for (let k = c0; k < c1; k++) {
+    const p = load<i32>(P + (<usize>(k - c0) << 2));
+    if (p == k) continue;
+    swapRange(A + (<usize>(k * n) << 3), A + (<usize>(p * n) << 3), 0, c0);
+    swapRange(A + (<usize>(k * n) << 3), A + (<usize>(p * n) << 3), c1, n);
+  }
+  return info;
+}
+
+function swapRange(x: usize, y: usize, j0: i32, j1: i32): void {
+  let j = j0;
+  for (; j + 1 < j1; j += 2) {
+    const q = <usize>j << 3;
+    const t = v128.load(x + q);
+    v128.store(x + q, v128.load(y + q));
+    v128.store(y + q, t);
+  }
+  for (; j < j1; j++) {
+    const q = <usize>j << 3;
+    const t = load<f64>(x + q);
+    store<f64>(x + q, load<f64>(y + q));
+    store<f64>(y + q, t);
+  }
+}
+
+/** x[0..r) ← x − v·y on rows (f64x2, then one at a time). */
+// @ts-ignore: decorator
+@inline
+function rowSub(x: usize, y: usize, v: f64, r: i32): void {
+  const vv = f64x2.splat(v);
+  let j = 0;
+  for (; j + 1 < r; j += 2) {
+    const q = <usize>j << 3;
+    v128.store(x + q, f64x2.sub(v128.load(x + q), f64x2.mul(vv, v128.load(y + q))));
+  }
+  for (; j < r; j++) {
+    const q = <usize>j << 3;
+    store<f64>(x + q, load<f64>(x + q) - v * load<f64>(y + q));
+  }
+}
+
+// @ts-ignore: decorator
+@inline
+function rowScale(x: usize, d: f64, r: i32): void {
+  const dd = f64x2.splat(d);
+  let j = 0;
+  for (; j + 1 < r; j += 2) {
+    const q = <usize>j << 3;
+    v128.store(x + q, f64x2.mul(v128.load(x + q), dd));
+  }
+  for (; j < r; j++) {
+    const q = <usize>j << 3;
+    store<f64>(x + q, load<f64>(x + q) * d);
+  }
+}
+
+/**
+ * X ← L⁻¹ X for a small m × m lower triangle L (unit diagonal unless `unit` is 0) at element
+ * offset l (leading dimension ldl) and X m × r at x (leading dimension ldx); zero entries of L
+ * are skipped.
+ */
+export function lowerBase(m: i32, r: i32, l: i32, ldl: i32, x: i32, ldx: i32, unit: i32): void {
+  const L = addr(l);
+  const X = addr(x);
+  for (let i = 0; i < m; i++) {
+    const xi = X + (<usize>(i * ldx) << 3);
+    const li = L + (<usize>(i * ldl) << 3);
+    for (let k = 0; k < i; k++) {
+      const v = load<f64>(li + (<usize>k << 3));
+      if (v == 0.0) continue;
+      rowSub(xi, X + (<usize>(k * ldx) << 3), v, r);
+    }
+    if (unit == 0) rowScale(xi, 1.0 / load<f64>(li + (<usize>i << 3)), r);
+  }
+}
+
+/** X ← U⁻¹ X for a small m × m upper triangle U (non-unit unless `unit` is 1); as `lowerBase`, bottom up. */
+export function upperBase(m: i32, r: i32, l: i32, ldl: i32, x: i32, ldx: i32, unit: i32): void {
+  const L = addr(l);
+  const X = addr(x);
+  for (let i = m - 1; i >= 0; i--) {
+    const xi = X + (<usize>(i * ldx) << 3);
+    const li = L + (<usize>(i * ldl) << 3);
+    for (let k = i + 1; k < m; k++) {
+      const v = load<f64>(li + (<usize>k << 3));
+      if (v == 0.0) continue;
+      rowSub(xi, X + (<usize>(k * ldx) << 3), v, r);
+    }
+    if (unit == 0) rowScale(xi, 1.0 / load<f64>(li + (<usize>i << 3)), r);
+  }
+}

@@ -30,6 +30,15 @@ export interface Workspace {
    * offsets and leading dimensions.
    */
   gemmSub(m: number, n: number, k: number, aOff: number, lda: number, bOff: number, ldb: number, cOff: number, ldc: number): void;
+  /**
+   * Optional fast paths for the narrow pieces of the LU, computing on `f64` with the same
+   * element operations as the JavaScript in lu.ts (so the same bits): `panel` factors columns
+   * c0..c1−1 of the n × n matrix at offset 0 (the pivots into `piv`, returning LAPACK's info,
+   * or null when it cannot), `lowerBase` and `upperBase` solve with a small triangle.
+   */
+  panel?(n: number, c0: number, c1: number, piv: Int32Array, info: number): number | null;
+  lowerBase?(m: number, r: number, lOff: number, ldl: number, xOff: number, ldx: number, unit: boolean): void;
+  upperBase?(m: number, r: number, lOff: number, ldl: number, xOff: number, ldx: number, unit: boolean): void;
   /** True when `f64` lives in memory that other threads can see (copy results out of it). */
   readonly shared: boolean;
   /** Give the memory back (the workspace must not be used afterwards). */
@@ -100,8 +109,37 @@ export interface WasmApi {
 /** The exports of the compiled kernels. */
 export interface KernelExports {
   gemmSub(m: number, n: number, k: number, aOff: number, lda: number, bOff: number, ldb: number, cOff: number, ldc: number, pack: number): void;
+  panelBase(n: number, c0: number, c1: number, a: number, buf: number, piv: number, info: number): number;
+  lowerBase(m: number, r: number, l: number, ldl: number, x: number, ldx: number, unit: number): void;
+  upperBase(m: number, r: number, l: number, ldl: number, x: number, ldx: number, unit: number): void;
   kc(): number;
   packLength(): number;
+}
+
+/**
+ * The narrow LU pieces of a workspace whose doubles start at byte 0 of `memory`, using the
+ * scratch area at element offset `pack` (`packDoubles` long) of one thread.
+ */
+export function wasmLuPieces(
+  ex: KernelExports,
+  memory: WasmMemoryLike,
+  pack: number,
+  packDoubles: number,
+): Pick<Workspace, 'panel' | 'lowerBase' | 'upperBase'> {
+  return {
+    panel: (n, c0, c1, piv, info) => {
+      const w = c1 - c0;
+      const need = align8((n - c0) * w);
+      if (need + 8 > packDoubles) return null;
+      const pivAt = (pack + need) * 2; // i32 element offset
+      const r = ex.panelBase(n, c0, c1, 0, pack, pivAt, info);
+      const view = new Int32Array(memory.buffer, pivAt * 4, w);
+      for (let k = 0; k < w; k++) piv[c0 + k] = view[k]!;
+      return r;
+    },
+    lowerBase: (m, r, lOff, ldl, xOff, ldx, unit) => ex.lowerBase(m, r, lOff, ldl, xOff, ldx, unit ? 1 : 0),
+    upperBase: (m, r, lOff, ldl, xOff, ldx, unit) => ex.upperBase(m, r, lOff, ldl, xOff, ldx, unit ? 1 : 0),
+  };
 }
 
 const PAGE = 65536;
@@ -212,6 +250,7 @@ function wasmWorkspace(length: number): Workspace {
     gemmSub: (m, n, k, aOff, lda, bOff, ldb, cOff, ldc) => {
       if (m > 0 && n > 0 && k > 0) ex.gemmSub(m, n, k, aOff, lda, bOff, ldb, cOff, ldc, pack);
     },
+    ...wasmLuPieces(ex, memory, pack, packDoubles),
     release: () => undefined,
   });
 }

@@ -31,16 +31,21 @@ export interface LUOptions {
   kernel?: DenseKernel;
 }
 
-/** C ← C − A B on blocks (the signature of `gemmSub`). */
-type Gemm = typeof gemmSub;
+/**
+ * C ← C − A B on blocks (the signature of `gemmSub`), carrying the workspace whose fast paths
+ * the narrow pieces may use when their arrays are its own.
+ */
+type Gemm = typeof gemmSub & { ws?: Workspace };
 
 /** A kernel call when all three blocks live in the workspace, the JS kernel otherwise. */
 function gemmOn(ws: Workspace): Gemm {
   const f = ws.f64;
-  return (m, nc, kc, a, aOff, lda, b, bOff, ldb, c, cOff, ldc) => {
+  const g: Gemm = (m, nc, kc, a, aOff, lda, b, bOff, ldb, c, cOff, ldc) => {
     if (a === f && b === f && c === f) ws.gemmSub(m, nc, kc, aOff, lda, bOff, ldb, cOff, ldc);
     else gemmSub(m, nc, kc, a, aOff, lda, b, bOff, ldb, c, cOff, ldc);
   };
+  g.ws = ws;
+  return g;
 }
 
 /** Right-hand sides below this count are solved in place in JavaScript (no copy into a workspace). */
@@ -314,6 +319,11 @@ export class LU {
  */
 function lowerSolve(l: Float64Array, lo: number, ldl: number, x: Float64Array, xo: number, ldx: number, m: number, r: number, g: Gemm, unit = true): void {
   if (m <= BASE) {
+    const ws = g.ws;
+    if (ws?.lowerBase && l === ws.f64 && x === ws.f64) {
+      ws.lowerBase(m, r, lo, ldl, xo, ldx, unit);
+      return;
+    }
     for (let i = 0; i < m; i++) {
       const xi = xo + i * ldx;
       const li = lo + i * ldl;
@@ -339,6 +349,11 @@ function lowerSolve(l: Float64Array, lo: number, ldl: number, x: Float64Array, x
 /** X ← U⁻¹ X, U the m × m upper triangle at `lo` of `l` (non-unit unless `unit`); as `lowerSolve`, bottom first. */
 function upperSolve(l: Float64Array, lo: number, ldl: number, x: Float64Array, xo: number, ldx: number, m: number, r: number, g: Gemm, unit = false): void {
   if (m <= BASE) {
+    const ws = g.ws;
+    if (ws?.upperBase && l === ws.f64 && x === ws.f64) {
+      ws.upperBase(m, r, lo, ldl, xo, ldx, unit);
+      return;
+    }
     for (let i = m - 1; i >= 0; i--) {
       const xi = xo + i * ldx;
       const li = lo + i * ldl;
@@ -454,6 +469,11 @@ function panel(a: Float64Array, n: number, c0: number, c1: number, piv: Int32Arr
     lowerSolve(a, c0 * n + c0, n, a, c0 * n + cm, n, cm - c0, c1 - cm, g);
     g(n - cm, c1 - cm, cm - c0, a, cm * n + c0, n, a, c0 * n + cm, n, a, cm * n + cm, n);
     return panel(a, n, cm, c1, piv, g, info);
+  }
+  const ws = g.ws;
+  if (ws?.panel && a === ws.f64) {
+    const r = ws.panel(n, c0, c1, piv, info);
+    if (r !== null) return r;
   }
   return panelBase(a, n, c0, c1, piv, info);
 }

@@ -24,7 +24,7 @@
  * the result is the same bits as with one thread.
  */
 import type { DenseKernel, KernelExports, Workspace } from '../../engine/linalg/kernel';
-import { align8, registerWorkspace, sharedKernelModule, wasmPackDoubles } from '../../engine/linalg/kernel';
+import { align8, registerWorkspace, sharedKernelModule, wasmLuPieces, wasmPackDoubles } from '../../engine/linalg/kernel';
 
 export const SLOT = 16;
 export const SEQ = 0;
@@ -162,6 +162,7 @@ export class ParallelKernel implements DenseKernel {
       f64,
       shared: true,
       gemmSub: (m, n, k, aOff, lda, bOff, ldb, cOff, ldc) => this.gemm(base, m, n, k, aOff, lda, bOff, ldb, cOff, ldc),
+      ...wasmLuPieces(this.ex, this.memory, base, this.pack),
       release: () => undefined,
     };
     return registerWorkspace(this, ws);
