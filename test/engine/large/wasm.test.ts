@@ -109,6 +109,29 @@ describe('WASM and JS kernels', () => {
   });
 });
 
+describe('WASM and JS kernels on singular matrices', () => {
+  it('report the same first zero pivot (LAPACK info) and the same factors', () => {
+    const n = 200;
+    // A zero column (column 31: exactly singular) and, separately, a row repeated (rows 50 and
+    // 120: singular in exact arithmetic, rounding usually leaves a tiny pivot).
+    const zeroCol = randomMatrix(n, 9, 0);
+    for (let i = 0; i < n; i++) zeroCol.data[i * n + 30] = 0;
+    const twin = randomMatrix(n, 10, 0);
+    twin.data.copyWithin(119 * n, 49 * n, 50 * n);
+    for (const a of [zeroCol, twin]) {
+      setKernel('js');
+      const j = new LU(a);
+      setKernel('wasm');
+      const w = new LU(a);
+      expect(w.singularColumn).toBe(j.singularColumn);
+      expect(Array.from(w.pivots)).toEqual(Array.from(j.pivots));
+      expect(w.lu).toEqual(j.lu);
+    }
+    setKernel('wasm');
+    expect(new LU(zeroCol).singularColumn).toBe(31);
+  });
+});
+
 describe('the choice of kernel', () => {
   it('is explicit and reported', () => {
     expect(kernelInfo()).toEqual({ simd: true, choice: 'auto', large: 'wasm-simd', small: 'js' });
