@@ -79,6 +79,8 @@ class CodeTable {
   private lens: Int32Array = new Int32Array(256);
   private vals: Int32Array = new Int32Array(256);
   private count = 0;
+  /** Per code index, the key (spelling) it was first seen with, or -1. */
+  private firstKey: Int32Array = new Int32Array(256).fill(-1);
 
   /** The index of the code spelled by bytes [s, e) (trimmed), adding it if new; -1 if the bytes are not ASCII. */
   lookupBytes(b: Uint8Array, s: number, e: number): number {
@@ -139,6 +141,12 @@ class CodeTable {
     this.vals[k] = v;
     this.arenaLen += len;
     this.keys[slot] = k;
+    if (v >= this.firstKey.length) {
+      const g = new Int32Array(Math.max(v + 1, this.firstKey.length * 2)).fill(-1);
+      g.set(this.firstKey);
+      this.firstKey = g;
+    }
+    if (this.firstKey[v]! < 0) this.firstKey[v] = k;
     if (this.count * 2 > this.keys.length) this.rehash();
   }
 
@@ -154,6 +162,16 @@ class CodeTable {
       keys[slot] = k;
     }
     this.keys = keys;
+  }
+
+  /** Whether bytes [s, e) spell code v as it was first seen (a cheap check of a guess). */
+  spells(v: number, b: Uint8Array, s: number, e: number): boolean {
+    if (v < 0 || v >= this.firstKey.length) return false;
+    const k = this.firstKey[v]!;
+    if (k < 0 || this.lens[k] !== e - s) return false;
+    const o = this.starts[k]!;
+    for (let i = 0; i < e - s; i++) if (this.arena[o + i] !== b[s + i]) return false;
+    return true;
   }
 
   /** The index of a code given as text (normalised here), adding it if new. */
@@ -173,6 +191,10 @@ class CodeTable {
 class OrderEdges {
   private last: Int32Array = new Int32Array(256).fill(-1);
   readonly edges = new Map<number, Set<number>>();
+  /** The last code seen after a (a guess at the next one), or -1. */
+  next(a: number): number {
+    return a >= 0 && a < this.last.length ? this.last[a]! : -1;
+  }
   add(a: number, b: number): void {
     if (a === b) return;
     if (a >= this.last.length) {
@@ -465,6 +487,11 @@ class LongReader {
   private colEdges = new OrderEdges();
   private prevRow = -1;
   private prevCol = -1;
+
+  /** A guess at the next column code (row-major files list the columns in the same order in each run). */
+  guessCol(): number {
+    return this.rowMajor ? this.colEdges.next(this.prevCol) : -1;
+  }
   rowMajor = true;
   /** Records (0-based) that gave no cell: header and blank lines. */
   readonly skipped: number[] = [];
@@ -743,6 +770,10 @@ class LongSink implements FieldSink {
     while (s < e && (b[s] === 32 || b[s] === 9)) s++;
     while (e > s && (b[e - 1] === 32 || b[e - 1] === 9)) e--;
     if (s === e) r.missingCode(field);
+    if (!isRow) {
+      const guess = r.guessCol();
+      if (guess >= 0 && table.spells(guess, b, s, e)) return guess;
+    }
     if (isRow && e - s === this.lastRowLen) {
       const last = this.lastRow;
       let same = true;
