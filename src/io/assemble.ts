@@ -644,6 +644,8 @@ export function readCells(block: Block, rows: number[], cols: number[], what: st
   const zeroBlank = (options.blanks ?? options.mapping?.blanks ?? 'error') === 'zero';
   const zeroTexts = new Set((options.zeroTexts ?? options.mapping?.zeroTexts ?? []).map((t) => t.trim()));
   const pos = cols.map((j) => block.cols[j]!.pos);
+  // Columns side by side in the source: copy each row at once, then look for holes.
+  const run = nc > 0 && pos.every((p, b) => p === pos[0]! + b) ? pos[0]! : -1;
   let blank = 0;
   let firstBlank: [number, number] | undefined;
   let text = 0;
@@ -652,6 +654,18 @@ export function readCells(block: Block, rows: number[], cols: number[], what: st
     const i = rows[a]!;
     const v = block.values(i);
     const o = a * nc;
+    if (run >= 0) {
+      out.set(v.subarray(run, run + nc), o);
+      let holes = false;
+      for (let b = o; b < o + nc; b++) {
+        const x = out[b]!;
+        if (x !== x) {
+          holes = true;
+          break;
+        }
+      }
+      if (!holes) continue;
+    }
     for (let b = 0; b < nc; b++) {
       const x = v[pos[b]!]!;
       if (x === x) {

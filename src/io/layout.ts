@@ -430,7 +430,7 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
     const label = labelColumn !== null ? normalizeLabel(g.text(r, labelColumn)) : '';
     let data = 0;
     const row = g.rows[r]!;
-    for (let j = leadMax + 1; j < row.kinds.length; j++) if (row.kinds[j] !== EMPTY) data++;
+    for (let j = leadMax + 1; j < row.kinds.length && data === 0; j++) if (row.kinds[j] !== EMPTY) data++;
     const key = code || normalizeCode(label);
     // A note written as a key and its text ('note', '...').
     if (keyCol !== null && /^notes?:?$/i.test(key) && data === 0) {
