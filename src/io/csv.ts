@@ -29,7 +29,7 @@ export interface CsvOptions extends NumberOptions {
   delimiter?: Delimiter;
   encoding?: Encoding;
   limits?: Limits;
-  /** Which parser: papaparse, the byte scanner, or by size (default; the scanner above 8 MiB). */
+  /** Which parser: papaparse, the byte scanner, or by size (default; the scanner above 2 MiB). */
   parser?: 'auto' | 'papaparse' | 'scanner';
 }
 
@@ -47,7 +47,7 @@ export interface CsvRead {
 }
 
 /** Above this size, `parser: 'auto'` uses the byte scanner. */
-export const SCANNER_THRESHOLD = 8 * 1024 * 1024;
+export const SCANNER_THRESHOLD = 2 * 1024 * 1024;
 
 /**
  * The delimiter that splits a sample of lines best: the share of lines it splits into two
