@@ -6,11 +6,15 @@ import type { Handler } from './context';
 import { tableOps } from './ops/table';
 import { analysisOps } from './ops/analyses';
 import { sensitivityOps } from './ops/sensitivity';
+import { fileOps } from './ops/files';
+import { reportOps } from './ops/report';
 
 const groups: Record<string, Handler>[] = [
   tableOps,
   analysisOps,
   sensitivityOps,
+  fileOps,
+  reportOps,
 ];
 
 export const handlers: Record<string, Handler> = {};
