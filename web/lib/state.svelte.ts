@@ -1,9 +1,27 @@
 /**
  * State that many panels share, as Svelte 5 runes. Panels read it and call the actions; only the
  * actions change it. Results come from the worker and never reach back into the table.
+ *
+ * The flow: `openFiles` sends each file's bytes to the worker; a project or a JSON table is used
+ * at once, a sheet waits in `layout` for the user to confirm its layout (`confirmLayout`); the
+ * table read is checked by the worker (`useTable`). A file that cannot be read leaves the current
+ * table, its views and the autosave as they were, and the error names the file, sheet, row,
+ * column and text. `startup` restores the autosave, or opens the demo on a first visit;
+ * `saveProject`, `startFresh` keep or drop the work.
  */
-import type { Finding, PlainTable } from '../../engine/index';
+import type { Finding, PlainTable, Technology } from '../../engine/index';
+import type { LayoutMapping, MappingInput } from '../../src/io/index';
+import type { Project } from '../../src/project/project';
+import { digestHex } from '../../src/report/sha256';
+import type { DetectResult, Opened, ReadConventions, ReadResult, SheetInfo, SupplyUseResult } from '../worker/ops/files';
+import type { SymmetricKind } from '../worker/ops/symmetric';
+import { version } from '../../package.json';
 import { EngineClient } from './engine-client';
+import { DEMO_NAME, demoTable } from './demo';
+import { checkWork, Debouncer, idbStore, memoryStore, projectText, WORK_VERSION, workFromProject } from './persist';
+import type { SourceInfo, Work, WorkStore } from './persist';
+import { defaultViews, draftOf, restoreViews, scenariosForProject, snapshotViews } from './views.svelte';
+import { setNumberLocale } from './numbers';
 
 export type Step = 'open' | 'layout' | 'checks' | 'coefficients' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'report';
 
@@ -20,6 +38,8 @@ export const STEPS: { id: Step; label: string }[] = [
   { id: 'report', label: 'Report' },
 ];
 
+export const TOOL = { name: 'ripplewise', version } as const;
+
 export interface Busy {
   label: string;
   fraction: number;
@@ -31,11 +51,54 @@ export const app = $state({
   step: 'open' as Step,
   tableName: '' as string,
   table: null as PlainTable | null,
+  /** Findings of the engine's checks of the current table. */
   findings: [] as Finding[],
+  /** Findings of the reader that opened the file (layout, conventions). */
+  readFindings: [] as Finding[],
+  source: null as SourceInfo | null,
   busy: null as Busy | null,
   error: '' as string,
+  /** Notes of the last restore (autosave or project): settings that could not be restored. */
+  notes: [] as string[],
   theme: 'system' as 'system' | 'light' | 'dark',
+  /** '' for the browser's locale. */
+  locale: '' as string,
+  /** 'off' until the autosave is read; then 'saved', 'pending' or 'unavailable'. */
+  autosave: 'off' as 'off' | 'saved' | 'pending' | 'unavailable' | 'failed',
+  /** True once startup is done (the autosave restored, or the demo opened). */
+  ready: false,
 });
+
+/** One file waiting for its layout to be confirmed. */
+export interface PendingSheet {
+  info: SheetInfo;
+  /** The detected (and edited) mapping; null while none could be found. */
+  mapping: LayoutMapping | null;
+  problem: { message: string; where?: Record<string, unknown> } | null;
+  findings: Finding[];
+  /** What the user set by hand, passed back to the detection on every change. */
+  given: MappingInput;
+}
+
+/** The layout step's state: one sheet (a table) or two (make and use). */
+export const layout = $state({
+  mode: 'table' as 'table' | 'supply-use',
+  sheets: [] as PendingSheet[],
+  /** The sheet shown in the preview. */
+  active: 0,
+  kind: 'flows' as 'flows' | 'coefficients',
+  /** Supply-use tables: which sheet is the make table (the other is the use table). */
+  makeIndex: 0,
+  suKind: 'industry-by-industry' as SymmetricKind,
+  scrap: '',
+  technology: 'industry' as Technology,
+});
+
+/** The sheet whose cells the Checks panel can show (the file of the current table, while it is open in the worker). */
+export const sourceSheet = $state({ id: '' as string, mapping: null as LayoutMapping | null, rowCount: 0, colCount: 0 });
+
+/** Files kept on the page while their layout is confirmed (to open another sheet of the same workbook). */
+const files = new Map<string, File>();
 
 let client: EngineClient | undefined;
 
@@ -44,39 +107,431 @@ export function engine(): EngineClient {
   if (!client) {
     client = new EngineClient(() => new Worker(new URL('../worker/engine.worker.ts', import.meta.url), { type: 'module' }));
     client.onRestart = async () => {
+      // A restarted worker has lost the open sheets too.
+      sourceSheet.id = '';
       if (app.table) await client!.call('set-table', { table: $state.snapshot(app.table) });
     };
   }
   return client;
 }
 
-/** Run one worker call with the busy bar, progress and a cancel button. */
-export async function run<T>(label: string, op: string, args: unknown): Promise<T | undefined> {
+/** An error as a person reads it: the message, then where it is (file, sheet, cell, row, column, text found). */
+export function errorText(e: unknown): string {
+  const err = e as { name?: string; message?: string; where?: Record<string, unknown> };
+  if (err?.name === 'CancelledError') return 'Cancelled.';
+  const msg = String(err?.message ?? e);
+  const w = err?.where;
+  if (!w || typeof w !== 'object') return msg;
+  const parts: string[] = [];
+  if (w.file !== undefined) parts.push(`file ${String(w.file)}`);
+  if (w.sheet !== undefined) parts.push(`sheet '${String(w.sheet)}'`);
+  if (w.cell !== undefined) parts.push(`cell ${String(w.cell)}`);
+  if (w.row !== undefined) parts.push(`row ${String(w.row)}`);
+  if (w.column !== undefined) parts.push(`column ${String(w.column)}`);
+  if (w.sector !== undefined) parts.push(`sector ${String(w.sector)}`);
+  if (w.text !== undefined) parts.push(`text found: '${String(w.text)}'`);
+  return parts.length ? `${msg}\nWhere: ${parts.join(', ')}` : msg;
+}
+
+/** Run one worker call with the busy bar, progress and a cancel button; the time is recorded as a performance measure `rw:<op>`. */
+export async function run<T>(label: string, op: string, args: unknown, transfer?: Transferable[]): Promise<T | undefined> {
   const ctl = new AbortController();
   app.busy = { label, fraction: 0, cancel: () => ctl.abort() };
   app.error = '';
+  const start = performance.now();
   try {
-    return await engine().call<T>(op, args, {
+    const v = await engine().call<T>(op, args, {
       signal: ctl.signal,
       onProgress: (fraction, note) => {
         if (app.busy) app.busy = { ...app.busy, fraction, ...(note ? { note } : {}) };
       },
+      ...(transfer ? { transfer } : {}),
     });
+    performance.measure(`rw:${op}`, { start, end: performance.now() });
+    return v;
   } catch (e) {
-    const err = e as { name?: string; message?: string };
-    app.error = err.name === 'CancelledError' ? 'Cancelled.' : String(err.message ?? e);
+    app.error = errorText(e);
     return undefined;
   } finally {
     app.busy = null;
   }
 }
 
-/** Make a table the current one: the worker checks it and keeps its model. */
-export async function useTable(name: string, table: PlainTable): Promise<void> {
+interface UseOptions {
+  source?: SourceInfo | null;
+  readFindings?: Finding[];
+  step?: Step;
+  /** A views snapshot to restore (autosave or project); its notes go to app.notes. */
+  views?: unknown;
+  notes?: string[];
+}
+
+/** Make a table the current one: the worker checks it and keeps its model. Nothing changes when the worker refuses it. */
+export async function useTable(name: string, table: PlainTable, o: UseOptions = {}): Promise<boolean> {
   const r = await run<{ findings: Finding[] }>('Checking the table', 'set-table', { table });
-  if (!r) return;
+  if (!r) return false;
   app.table = table;
   app.tableName = name;
   app.findings = r.findings;
-  app.step = 'checks';
+  app.readFindings = o.readFindings ?? [];
+  app.source = o.source ?? null;
+  const notes = [...(o.notes ?? [])];
+  if (o.views !== undefined) notes.push(...restoreViews(o.views));
+  app.notes = notes;
+  app.step = o.step ?? 'checks';
+  return true;
+}
+
+let demoSha: string | undefined;
+
+/** Open the invented demo economy. */
+export async function openDemo(): Promise<boolean> {
+  demoSha ??= await digestHex(new TextEncoder().encode(JSON.stringify(demoTable)));
+  sourceSheet.id = '';
+  return useTable(DEMO_NAME, demoTable, { source: { kind: 'demo', name: 'vellan-coast.table.json', sha256: demoSha } });
+}
+
+// ---------------------------------------------------------------------------------------------
+// Opening files
+
+async function openOne(file: File, options?: ReadConventions): Promise<Opened | undefined> {
+  const buf = await file.arrayBuffer();
+  return run<Opened>(`Reading ${file.name}`, 'file-open', { name: file.name, bytes: buf, ...(options ? { options } : {}) }, [buf]);
+}
+
+/** Detect (or re-detect with the user's settings) the layout of a pending sheet. */
+export async function detect(i: number): Promise<void> {
+  const p = layout.sheets[i];
+  if (!p) return;
+  const kind = layout.mode === 'supply-use' ? (i === layout.makeIndex ? 'make' : 'use') : layout.kind;
+  const given = $state.snapshot(p.given) as MappingInput;
+  const r = await run<DetectResult>('Finding the layout', 'file-detect', { id: p.info.id, mapping: { ...given, kind }, kind });
+  if (!r) return;
+  p.mapping = r.mapping ?? null;
+  p.problem = r.problem ?? null;
+  p.findings = r.findings;
+}
+
+function pendingOf(info: SheetInfo): PendingSheet {
+  return { info, mapping: null, problem: null, findings: [], given: {} };
+}
+
+/**
+ * Open what the user chose or dropped: one file (a table sheet, a project, a JSON table) or two
+ * (make and use tables). On any error the current work stays as it is.
+ */
+export async function openFiles(list: File[]): Promise<void> {
+  app.error = '';
+  if (!list.length) return;
+  if (list.length > 2) {
+    app.error = `choose one file (a table or a project), or two (make and use tables); ${list.length} were given`;
+    return;
+  }
+  const opened: { file: File; r: Opened }[] = [];
+  for (const f of list) {
+    const r = await openOne(f);
+    if (!r) return;
+    opened.push({ file: f, r });
+  }
+  if (opened.length === 1) {
+    const { file, r } = opened[0]!;
+    if (r.type === 'project') return applyProject(r.project, file.name);
+    if (r.type === 'table') {
+      sourceSheet.id = '';
+      await useTable(file.name, r.table, { source: { kind: 'json', name: file.name, sha256: r.sha256, size: r.size } });
+      return;
+    }
+    files.clear();
+    files.set(r.id, file);
+    layout.mode = 'table';
+    layout.kind = 'flows';
+    layout.sheets = [pendingOf(r)];
+    layout.active = 0;
+    await detect(0);
+    app.step = 'layout';
+    return;
+  }
+  const sheets = opened.map((o) => o.r).filter((r): r is SheetInfo => r.type === 'sheet');
+  if (sheets.length !== 2) {
+    app.error = 'two files are read as make and use tables: both must be sheets (CSV, TSV, text or XLSX), not projects or JSON tables';
+    return;
+  }
+  files.clear();
+  opened.forEach((o) => files.set((o.r as SheetInfo).id, o.file));
+  layout.mode = 'supply-use';
+  // The make table is the file whose name says so; otherwise the first.
+  layout.makeIndex = /use/i.test(sheets[0]!.name) && !/use/i.test(sheets[1]!.name) ? 1 : 0;
+  layout.sheets = sheets.map(pendingOf);
+  layout.active = 0;
+  await detect(0);
+  await detect(1);
+  app.step = 'layout';
+}
+
+/** Read a pending sheet again with other conventions (sheet, delimiter, decimal mark); the roles set by hand are dropped. */
+export async function reread(i: number, options: ReadConventions): Promise<void> {
+  const p = layout.sheets[i];
+  if (!p) return;
+  const r = await run<SheetInfo>('Reading the cells again', 'file-reread', { id: p.info.id, options });
+  if (!r) return;
+  p.info = r;
+  p.given = keepStructure(p.given, true);
+  await detect(i);
+}
+
+/** The user's settings without the roles (after a change of structure the codes may be others). */
+export function keepStructure(g: MappingInput, dropStructure = false): MappingInput {
+  const { rows: _r, columns: _c, output: _o, ...rest } = g;
+  if (!dropStructure) return rest;
+  const { codeColumn: _a, labelColumn: _b, codeRow: _d, labelRow: _e, titleRows: _f, headerRows: _h, noteRows: _n, unitColumn: _u, ...kept } = rest;
+  return kept;
+}
+
+/** Use a second sheet of the workbook already open as the other table (make and use in one workbook). */
+export async function addSheetOfSameFile(sheet: string): Promise<void> {
+  const first = layout.sheets[0];
+  const file = first && files.get(first.info.id);
+  if (!first || !file) return;
+  const r = await openOne(file, { sheet });
+  if (!r || r.type !== 'sheet') return;
+  files.set(r.id, file);
+  layout.mode = 'supply-use';
+  layout.sheets = [first, pendingOf(r)];
+  layout.makeIndex = 0;
+  await detect(0);
+  await detect(1);
+  layout.active = 1;
+}
+
+/** Add a second file as the other table of a supply-use pair. */
+export async function addSecondFile(file: File): Promise<void> {
+  const first = layout.sheets[0];
+  if (!first) return;
+  const r = await openOne(file);
+  if (!r) return;
+  if (r.type !== 'sheet') {
+    app.error = `file ${file.name} is not a sheet of cells, so it cannot be the other supply-use table`;
+    return;
+  }
+  files.set(r.id, file);
+  layout.mode = 'supply-use';
+  layout.sheets = [first, pendingOf(r)];
+  await detect(0);
+  await detect(1);
+  layout.active = 1;
+}
+
+/** Back to one table: forget the second sheet. */
+export async function singleTable(): Promise<void> {
+  layout.mode = 'table';
+  layout.sheets = layout.sheets.slice(0, 1);
+  layout.active = 0;
+  layout.makeIndex = 0;
+  await detect(0);
+}
+
+/** Read the table with the confirmed layout and make it current (the views follow). */
+export async function confirmLayout(): Promise<void> {
+  if (layout.mode === 'table') {
+    const p = layout.sheets[0];
+    if (!p?.mapping) {
+      app.error = 'no layout was found for this sheet yet: set the code row and column, or the roles, first';
+      return;
+    }
+    const mapping = $state.snapshot(p.mapping) as LayoutMapping;
+    const r = await run<ReadResult>('Reading the table', 'file-read', { id: p.info.id, mapping });
+    if (!r) return;
+    const info = p.info;
+    const source: SourceInfo = { kind: info.kind, name: info.name, sha256: info.sha256, size: info.size, mapping: r.mapping as unknown as Record<string, unknown> };
+    if (info.sheet !== undefined) source.sheet = info.sheet;
+    const ok = await useTable(info.name + (info.sheet && (info.sheets?.length ?? 0) > 1 ? ` (${info.sheet})` : ''), r.table, { source, readFindings: r.findings });
+    if (ok) Object.assign(sourceSheet, { id: info.id, mapping: r.mapping, rowCount: info.rowCount, colCount: info.colCount });
+    return;
+  }
+  const mk = layout.sheets[layout.makeIndex];
+  const us = layout.sheets[1 - layout.makeIndex];
+  if (!mk?.mapping || !us?.mapping) {
+    app.error = 'the layout of the make or the use table was not found yet: adjust it first';
+    return;
+  }
+  const r = await run<SupplyUseResult>('Reading the make and use tables', 'file-read-supply-use', {
+    make: mk.info.id,
+    use: us.info.id,
+    makeMapping: $state.snapshot(mk.mapping),
+    useMapping: $state.snapshot(us.mapping),
+    kind: layout.suKind,
+    technology: layout.technology,
+    ...(layout.scrap.trim() ? { scrap: layout.scrap.trim() } : {}),
+  });
+  if (!r) return;
+  const fileOf = (p: PendingSheet, role: 'make' | 'use', m: LayoutMapping) => ({ role, name: p.info.name, sha256: p.info.sha256, size: p.info.size, ...(p.info.sheet !== undefined ? { sheet: p.info.sheet } : {}), mapping: m as unknown as Record<string, unknown> });
+  const source: SourceInfo = {
+    kind: 'supply-use',
+    name: us.info.name,
+    sha256: us.info.sha256,
+    size: us.info.size,
+    files: [fileOf(mk, 'make', r.mappings.make), fileOf(us, 'use', r.mappings.use)],
+    supplyUse: { kind: layout.suKind, technology: layout.technology, ...(layout.scrap.trim() ? { scrap: layout.scrap.trim() } : {}) },
+  };
+  const ok = await useTable(`${mk.info.name} + ${us.info.name}`, r.table, { source, readFindings: r.findings });
+  if (ok) sourceSheet.id = '';
+}
+
+// ---------------------------------------------------------------------------------------------
+// Projects and the autosave
+
+/** Use a project read (and validated) by the worker: its table, scenarios and view settings. */
+export async function applyProject(p: Project, fileName: string): Promise<void> {
+  const drafts = p.scenarios.map((s) => draftOf(s));
+  const w = workFromProject(p, fileName, drafts);
+  sourceSheet.id = '';
+  const ok = await useTable(w.tableName, w.table, { source: w.source, views: w.snapshot, notes: w.notes });
+  if (!ok) return;
+  if (w.theme) app.theme = w.theme;
+  if (w.locale !== undefined) app.locale = w.locale;
+}
+
+/** The project file's text for the current work. */
+export function currentProjectText(): string {
+  return projectText(
+    {
+      table: app.table ? ($state.snapshot(app.table) as PlainTable) : null,
+      tableName: app.tableName,
+      source: app.source ? ($state.snapshot(app.source) as SourceInfo) : null,
+      views: snapshotViews(),
+      theme: app.theme,
+      locale: app.locale,
+    },
+    scenariosForProject(),
+    { ...TOOL },
+  );
+}
+
+/** Offer bytes or text as a downloaded file. */
+export function download(name: string, data: string | Uint8Array, mime: string): void {
+  const blob = new Blob([data as BlobPart], { type: mime });
+  const url = URL.createObjectURL(blob);
+  const a = document.createElement('a');
+  a.href = url;
+  a.download = name;
+  a.style.display = 'none';
+  document.body.appendChild(a);
+  a.click();
+  a.remove();
+  setTimeout(() => URL.revokeObjectURL(url), 10_000);
+}
+
+/** Save the work as a project file (downloaded). */
+export function saveProject(): void {
+  try {
+    const text = currentProjectText();
+    const stem = (app.tableName || 'work').replace(/\.[a-z0-9]+$/i, '').replace(/[^\w-]+/g, '-').replace(/^-+|-+$/g, '').toLowerCase() || 'work';
+    download(`${stem}.ripplewise.json`, text, 'application/json');
+  } catch (e) {
+    app.error = errorText(e);
+  }
+}
+
+let store: WorkStore | undefined;
+let tableSnap: { ref: unknown; plain: PlainTable | null } = { ref: undefined, plain: null };
+
+/** The work as the autosave keeps it (the table's plain copy is made once per table). */
+export function currentWork(): Work {
+  if (tableSnap.ref !== app.table) tableSnap = { ref: app.table, plain: app.table ? ($state.snapshot(app.table) as PlainTable) : null };
+  return {
+    version: WORK_VERSION,
+    savedAt: new Date().toISOString(),
+    tableName: app.tableName,
+    table: tableSnap.plain,
+    source: app.source ? ($state.snapshot(app.source) as SourceInfo) : null,
+    readFindings: $state.snapshot(app.readFindings) as Finding[],
+    views: snapshotViews(),
+    step: app.step === 'layout' ? (app.table ? 'checks' : 'open') : app.step,
+    theme: app.theme,
+    locale: app.locale,
+  };
+}
+
+const saver = new Debouncer(
+  500,
+  async () => {
+    if (!store) return;
+    await store.save(currentWork());
+    app.autosave = 'saved';
+  },
+  () => (app.autosave = 'failed'),
+);
+
+/** Ask for an autosave a moment from now (called by App.svelte after each change). */
+export function scheduleAutosave(): void {
+  if (!store || !app.ready) return;
+  app.autosave = 'pending';
+  saver.schedule();
+}
+
+/** Write a pending autosave now (before the page is hidden). */
+export function flushAutosave(): Promise<void> {
+  return saver.flush();
+}
+
+/**
+ * On load: restore the autosaved work, or open the demo economy on a first visit. A store that
+ * cannot be opened (private windows may refuse IndexedDB) leaves the autosave off, said so.
+ */
+export async function startup(s?: WorkStore): Promise<void> {
+  try {
+    store = s ?? (await idbStore());
+  } catch {
+    store = memoryStore();
+    app.autosave = 'unavailable';
+  }
+  let raw: unknown;
+  try {
+    raw = await store.load();
+  } catch {
+    raw = undefined;
+    app.autosave = 'unavailable';
+  }
+  const { work, notes } = checkWork(raw);
+  if (work) {
+    app.theme = work.theme;
+    app.locale = work.locale;
+    setNumberLocale(work.locale || undefined);
+    if (work.table) {
+      const ok = await useTable(work.tableName, work.table, { source: work.source, readFindings: work.readFindings, step: (work.step as Step) || 'checks', views: work.views, notes });
+      if (!ok) app.step = 'open';
+    } else {
+      restoreViews(work.views);
+      app.notes = notes;
+      app.step = 'open';
+    }
+  } else {
+    app.notes = notes;
+    await openDemo();
+  }
+  if (app.autosave === 'off') app.autosave = 'saved';
+  app.ready = true;
+}
+
+/** Drop everything: the table, the views, the autosave. The next visit starts empty (not with the demo). */
+export async function startFresh(): Promise<void> {
+  saver.cancel();
+  app.table = null;
+  app.tableName = '';
+  app.findings = [];
+  app.readFindings = [];
+  app.source = null;
+  app.error = '';
+  app.notes = [];
+  layout.sheets = [];
+  sourceSheet.id = '';
+  files.clear();
+  restoreViews(defaultViews());
+  app.step = 'open';
+  void engine().call('file-close', {});
+  if (store) {
+    await store.clear();
+    await store.save(currentWork());
+    app.autosave = 'saved';
+  }
 }

@@ -12,9 +12,12 @@ import LinkagesPanel from './LinkagesPanel.svelte';
 import ScenariosPanel from './ScenariosPanel.svelte';
 import ResultsPanel from './ResultsPanel.svelte';
 import SensitivityPanel from './SensitivityPanel.svelte';
+import LayoutPanel from './LayoutPanel.svelte';
+import ReportPanel from './ReportPanel.svelte';
 
 export const panels: Partial<Record<Step, Component>> = {
   open: OpenPanel,
+  layout: LayoutPanel,
   checks: ChecksPanel,
   multipliers: MultipliersPanel,
   coefficients: CoefficientsPanel,
@@ -22,4 +25,5 @@ export const panels: Partial<Record<Step, Component>> = {
   scenarios: ScenariosPanel,
   results: ResultsPanel,
   sensitivity: SensitivityPanel,
+  report: ReportPanel,
 };

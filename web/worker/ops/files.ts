@@ -250,7 +250,8 @@ export const fileOps: Record<string, Handler> = {
       const mapping = checkedMapping(args.mapping, s.name);
       const kind = args.kind ?? mapping?.kind ?? 'flows';
       const source = sourceOf(s, mapping);
-      const r = detectLayout(source, { ...(mapping ? { mapping } : {}), kind });
+      // detectLayout classifies make and use sheets too (src/io/assemble.ts classify), though its options type names flows and coefficients only.
+      const r = detectLayout(source, { ...(mapping ? { mapping } : {}), kind: kind as 'flows' });
       if (s.sheet !== undefined) r.mapping.sheet = s.sheet;
       r.mapping.file = s.name;
       if (s.grid.conventions || s.conventions) r.mapping.conventions = { ...(s.grid.conventions ?? s.conventions) };
