@@ -41,6 +41,9 @@ describe.skipIf(!chromium)('the model views in Chromium', () => {
     page = b.page;
     work = mkdtempSync(join(tmpdir(), 'rw-e2e-views-'));
     await page.goto(served.url);
+    // The demo opens by itself on a first visit (part B); open it again from the Open step as a user would.
+    await page.getByRole('navigation').getByRole('button', { name: 'Coefficients', exact: true }).waitFor({ timeout: 15_000 });
+    await nav('Open');
     await page.getByRole('button', { name: 'Open the demo economy' }).click();
     await page.getByRole('navigation').getByRole('button', { name: 'Coefficients', exact: true }).waitFor();
   });
