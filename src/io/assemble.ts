@@ -632,6 +632,26 @@ function fmt(x: number): string {
   return Number.isInteger(x) ? String(x) : x.toPrecision(10).replace(/\.?0+$/, '');
 }
 
+/**
+ * How empty cells in a block are read: as the options or the mapping say; otherwise as zero in a
+ * spreadsheet (agencies leave zero cells of their workbooks empty) and as an error in a text file.
+ */
+export function blankMode(block: Block, options: AssembleOptions): 'error' | 'zero' {
+  return options.blanks ?? options.mapping?.blanks ?? (block.sheet !== undefined ? 'zero' : 'error');
+}
+
+/** A note when empty spreadsheet cells are read as zero by default, so that the choice is visible. */
+export function blankNote(block: Block, options: AssembleOptions): Finding | undefined {
+  if (options.blanks ?? options.mapping?.blanks) return undefined;
+  if (block.sheet === undefined) return undefined;
+  return {
+    code: 'blanks-as-zero',
+    severity: 'note',
+    message: `file ${block.file}, sheet '${block.sheet}': empty cells inside the table are read as zero, the usual convention of agency spreadsheets; read with blanks: 'error' (the command line: --blanks error) to refuse them`,
+    where: { file: block.file, sheet: block.sheet },
+  };
+}
+
 /** Read cells of a block into a row-major matrix; empty and text cells follow the options, else an error naming the first and counting all. */
 export function readCells(block: Block, rows: number[], cols: number[], what: string, options: AssembleOptions): Float64Array {
   const nr = rows.length;
@@ -641,7 +661,7 @@ export function readCells(block: Block, rows: number[], cols: number[], what: st
     return block.data;
   }
   const out = new Float64Array(nr * nc);
-  const zeroBlank = (options.blanks ?? options.mapping?.blanks ?? 'error') === 'zero';
+  const zeroBlank = blankMode(block, options) === 'zero';
   const zeroTexts = new Set((options.zeroTexts ?? options.mapping?.zeroTexts ?? []).map((t) => t.trim()));
   const pos = cols.map((j) => block.cols[j]!.pos);
   // Columns side by side in the source: copy each row at once, then look for holes.
@@ -774,7 +794,7 @@ export function mappingOf(block: Block, c: Classified, kind: TableKind, options:
     rows,
     columns,
     output: { from: 'none' },
-    blanks: options.blanks ?? options.mapping?.blanks ?? 'error',
+    blanks: blankMode(block, options),
     totals: c.totals,
     ...extra,
   };
@@ -835,6 +855,8 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
     }
   }
   const sc = sr.map((i) => colByCode.get(block.rows[i]!.code)!);
+  const bn = blankNote(block, options);
+  if (bn) findings.push(bn);
   if (sc.some((j, k) => k > 0 && j < sc[k - 1]!)) {
     findings.push({ code: 'columns-reordered', severity: 'note', message: `file ${file}: the sector columns are in a different order from the rows; they were put in the order of the rows`, where: { file } });
   }

@@ -15,7 +15,7 @@ import type { Finding } from '../../engine/findings';
 import type { Matrix } from '../../engine/linalg/matrix';
 import type { SupplyUseInput, Technology } from '../../engine/supply-use';
 import type { Axis } from '../../engine/table';
-import { type AssembleOptions, classifyPart, mappingOf, readCells, type SupplyUsePart } from './assemble';
+import { type AssembleOptions, blankNote, classifyPart, mappingOf, readCells, type SupplyUsePart } from './assemble';
 import type { LayoutMapping, MappingInput } from './mapping';
 import { sourceBlock, type TableSource } from './tables';
 
@@ -168,6 +168,11 @@ export function readSupplyUse(makeSource: TableSource, useSource: TableSource, o
   const indIdx = new Map(indCodes.map((c, i) => [c, i]));
   const comIdx = new Map(comCodes.map((c, i) => [c, i]));
 
+  // Empty spreadsheet cells read as zero by default: say so.
+  for (const [part, o] of [[make, mo], [use, uo]] as const) {
+    const note = blankNote(part.block, o);
+    if (note) findings.push(note);
+  }
   // Make: industries × commodities.
   const mkCells = readCells(make.block, make.sectorRows, make.sectorCols, 'make table', mo);
   const makeM = new Float64Array(ni * nc);

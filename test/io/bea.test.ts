@@ -55,13 +55,24 @@ describe.skipIf(!have)(`src/io reads the published tables (source: ${BEA_SOURCE}
   let use: LongTable;
   let fromText: SupplyUseRead;
   let fromXlsx: SupplyUseRead;
+  let xlsxGrid: Awaited<ReturnType<typeof readXlsx>>['grid'];
 
   beforeAll(async () => {
     make = readLongCsv(bytes('make.txt'), { file: 'make.txt' });
     use = readLongCsv(bytes('use.txt'), { file: 'use.txt' });
     fromText = readSupplyUse(make, use, { scrap: 'S004' });
     const x = await readXlsx(bytes('use.xlsx'), { file: 'use.xlsx' });
-    fromXlsx = readSupplyUse(make, x.grid, { scrap: 'S004', blanks: 'zero' });
+    xlsxGrid = x.grid;
+    // No blanks option: the spreadsheet's empty cells are zeros by default, and a note says so.
+    fromXlsx = readSupplyUse(make, x.grid, { scrap: 'S004' });
+  });
+
+  it('reads the empty cells of the spreadsheet as zero by default, says so, and refuses them when told to', () => {
+    const note = fromXlsx.findings.find((f) => f.code === 'blanks-as-zero');
+    expect(note?.severity).toBe('note');
+    expect(note?.message).toMatch(/file use.xlsx, sheet 'Sheet1': empty cells inside the table are read as zero/);
+    expect(fromText.findings.some((f) => f.code === 'blanks-as-zero')).toBe(false);
+    expect(() => readSupplyUse(make, xlsxGrid, { scrap: 'S004', blanks: 'error' })).toThrow(/file use.xlsx, sheet 'Sheet1', cell [A-Z]+\d+ .* is empty/);
   });
 
   it('finds the value fields of the long files, passing over the constant year and table-number fields', () => {
