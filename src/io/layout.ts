@@ -599,11 +599,13 @@ export function metaFromTitles(lines: string[]): TableMeta {
   if (!lines.length) return meta;
   meta.title = lines[0]!;
   const all = lines.join(' ');
-  const scale = /\b(thousands|millions|billions)\b/i.exec(all);
+  // 'millions', 'USD million', '$ thousand', "'000", 'bn', 'mn'.
+  const scale = /\b(thousands?|millions?|billions?|bn|mn)\b|'000\b|’000\b/i.exec(all);
   if (scale) {
-    const w = scale[1]!.toLowerCase();
-    meta.scaleLabel = w;
-    meta.scale = w === 'thousands' ? 1e3 : w === 'millions' ? 1e6 : 1e9;
+    const w = (scale[1] ?? 'thousand').toLowerCase();
+    const k = w.startsWith('th') ? 'thousands' : w.startsWith('m') ? 'millions' : 'billions';
+    meta.scaleLabel = k;
+    meta.scale = k === 'thousands' ? 1e3 : k === 'millions' ? 1e6 : 1e9;
   }
   const year = /\b(19[0-9]{2}|20[0-9]{2})\b/.exec(all);
   if (year) meta.year = Number(year[1]);
@@ -611,5 +613,10 @@ export function metaFromTitles(lines: string[]): TableMeta {
   if (price) meta.priceBasis = price[0]!.toLowerCase().replace('’', "'");
   const cur = /\b(USD|EUR|GBP|JPY|CNY|AUD|CAD|CHF|SEK|NOK|DKK|NZD|ZAR|INR|BRL|MXN|KRW)\b/.exec(all);
   if (cur) meta.currency = cur[1]!;
+  else {
+    // A symbol or a word, read as the currency as written (the unit, not a guess at the country).
+    const sym = /(€|£|¥|\$)|\b(euros?|pounds sterling|pounds|yen|dollars)\b/i.exec(all);
+    if (sym) meta.currency = (sym[1] ?? sym[2]!).toLowerCase() === 'euros' ? 'euro' : (sym[1] ?? sym[2]!);
+  }
   return meta;
 }
