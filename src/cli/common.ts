@@ -44,7 +44,8 @@ export function tableOptions(cmd: Command): Command {
     .option('--mapping <file>', 'a layout mapping (JSON) that overrides the detected layout of the table')
     .option('--input-format <format>', 'json|csv|tsv|xlsx (default: from the contents and the extension)')
     .option('--shape <shape>', 'wide|long: a wide sheet or a long file of row code, column code and value (default: detected)')
-    .option('--blanks <rule>', 'empty cells in the table: error or zero (default: zero in spreadsheets, error in text files)');
+    .option('--blanks <rule>', 'empty cells in the table: error or zero (default: zero in spreadsheets, error in text files)')
+    .option('--table-kind <kind>', 'flows|coefficients: transactions, or technical coefficients A (default: detected)');
 }
 
 /** Examples at the end of a command's help. */

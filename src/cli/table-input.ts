@@ -26,6 +26,7 @@ export interface TableFlags {
   inputFormat?: string;
   shape?: string;
   blanks?: string;
+  tableKind?: string;
 }
 
 /** --blanks error|zero, checked. */
@@ -84,6 +85,9 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
   const format = checkInputFormat(flags.inputFormat);
   const blanks = blanksOption(flags.blanks);
   if (flags.shape !== undefined && flags.shape !== 'wide' && flags.shape !== 'long') throw new UsageError(`--shape must be wide or long; got '${flags.shape}'`, 'bad-shape');
+  if (flags.tableKind !== undefined && flags.tableKind !== 'flows' && flags.tableKind !== 'coefficients') {
+    throw new UsageError(`--table-kind must be flows or coefficients; got '${flags.tableKind}'`, 'bad-table-kind');
+  }
   const { mapping, file: mappingFile } = await loadMapping(ctx, flags.mapping);
   const file = await readInput(ctx, name, 'table');
   const extra = mappingFile ? [{ role: 'mapping', file: mappingFile }] : [];
@@ -104,6 +108,7 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     ...(mapping ? { mapping } : {}),
     ...(flags.shape ? { shape: flags.shape as 'wide' | 'long' } : {}),
     ...(blanks ? { blanks, long: { blanks } } : {}),
+    ...(flags.tableKind ? { kind: flags.tableKind as 'flows' | 'coefficients' } : {}),
   });
   const out: LoadedTable = { table: r.table, file, findings: r.findings, extra, mapping: r.mapping, shape: r.shape };
   if (flags.sheet !== undefined) out.sheet = flags.sheet;

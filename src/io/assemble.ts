@@ -20,6 +20,7 @@
  */
 import { InputError, type Where } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
+import { LeontiefModel } from '../../engine/leontief';
 import type { Matrix } from '../../engine/linalg/matrix';
 import type { Axis, Satellite, Table, TableMeta } from '../../engine/table';
 import { validateTable } from '../../engine/table';
@@ -652,6 +653,19 @@ export function blankNote(block: Block, options: AssembleOptions): Finding | und
   };
 }
 
+/** x = (I − A)⁻¹ Σ F for coefficients A (row-major n × n) and final demand F (n × k); undefined when that fails or gives x ≤ 0. */
+function outputFromDemand(A: Float64Array, F: Float64Array, n: number, k: number): Float64Array | undefined {
+  const f = new Float64Array(n);
+  for (let i = 0; i < n; i++) for (let j = 0; j < k; j++) f[i] += F[i * k + j]!;
+  try {
+    const x = new LeontiefModel({ rows: n, cols: n, data: A.slice() }).solve(f);
+    for (let i = 0; i < n; i++) if (!(x[i]! > 0)) return undefined;
+    return x;
+  } catch {
+    return undefined;
+  }
+}
+
 /** Read cells of a block into a row-major matrix; empty and text cells follow the options, else an error naming the first and counting all. */
 export function readCells(block: Block, rows: number[], cols: number[], what: string, options: AssembleOptions): Float64Array {
   const nr = rows.length;
@@ -900,7 +914,18 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
     from = { from: 'row-sums' };
   } else if (outCols.length) colOutput(outCols[outCols.length - 1]!);
   else if (outRows.length) rowOutput(outRows[outRows.length - 1]!);
-  else if (kind === 'coefficients') {
+  else if (kind === 'coefficients' && fd.length) {
+    // Coefficients with final demand in levels: output is what that demand requires, x = (I − A)⁻¹ f.
+    const solved = outputFromDemand(Zd, Fd, n, fd.length);
+    if (solved) {
+      x = solved;
+      from = { from: 'final-demand' };
+    } else {
+      x = new Float64Array(n).fill(1);
+      from = { from: 'assumed' };
+      findings.push({ code: 'output-not-derived', severity: 'warning', message: `file ${file}: total output could not be derived from the final demand (I − A is singular or gives a non-positive output), so every sector's output is taken as 1 and the final-demand columns are not consistent with it`, where: { file } });
+    }
+  } else if (kind === 'coefficients') {
     x = new Float64Array(n).fill(1);
     from = { from: 'assumed' };
   } else {
@@ -945,7 +970,8 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
       scaleColumns(Vd, va.length, n, x);
       if (importsData) for (let j = 0; j < n; j++) importsData[j] *= x[j]!;
       for (const s of satellites) for (let j = 0; j < n; j++) s.values[j] *= x[j]!;
-      findings.push({ code: 'coefficients-scaled', severity: 'note', message: `file ${file}: coefficients were multiplied by total output (${from.from} ${from.code ?? ''}) to give flows`, where: { file } });
+      const whence = from.from === 'final-demand' ? 'derived from the final-demand columns as x = (I − A)⁻¹ f' : `from the ${from.from}${from.code ? ` '${from.code}'` : ''}`;
+      findings.push({ code: 'coefficients-scaled', severity: 'note', message: `file ${file}: coefficients were multiplied by total output (${whence}) to give flows`, where: { file } });
     }
     Z = { rows: n, cols: n, data: Zd };
     V = { rows: va.length, cols: n, data: Vd };

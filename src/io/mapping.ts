@@ -84,7 +84,7 @@ export interface LayoutMapping {
   rows: MappedRow[];
   columns: MappedColumn[];
   /** Where total output came from: a total column, a total row, the row sums, or assumed 1 (coefficients without outputs). */
-  output: { from: 'column' | 'row' | 'row-sums' | 'assumed' | 'none'; code?: string };
+  output: { from: 'column' | 'row' | 'row-sums' | 'final-demand' | 'assumed' | 'none'; code?: string };
   /** Empty cells in the blocks read: an error, or zero. */
   blanks: 'error' | 'zero';
   /** Texts read as zero in the blocks, such as '-' or '..'. */
@@ -199,7 +199,7 @@ export function parseMapping(input: string | unknown, file = 'mapping'): Mapping
   }
   if (m.output !== undefined) {
     const out = m.output as Record<string, unknown>;
-    if (typeof out !== 'object' || out === null || !['column', 'row', 'row-sums', 'assumed', 'none'].includes(String(out.from))) {
+    if (typeof out !== 'object' || out === null || !['column', 'row', 'row-sums', 'final-demand', 'assumed', 'none'].includes(String(out.from))) {
       throw new InputError('bad-mapping', `file ${file}: output must be { "from": "column" | "row" | "row-sums" | "assumed", "code"?: ... }`, { file });
     }
   }

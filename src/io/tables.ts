@@ -115,7 +115,46 @@ export function readTable(source: TableSource, options: ReadTableOptions = {}): 
   const kind = kindOf(options);
   const sb = sourceBlock(source, options.mapping);
   const r = assembleTable(sb.block, optionsOf(kind, options), sb.meta, sb.extra);
+  if (options.kind === undefined && options.mapping?.kind === undefined) {
+    const why = looksLikeCoefficients(r);
+    if (why) {
+      const c = assembleTable(sb.block, optionsOf('coefficients', options), sb.meta, sb.extra);
+      const note: Finding = {
+        code: 'read-as-coefficients',
+        severity: 'note',
+        message: `file ${r.mapping.file}: read as technical coefficients (${why}); give the kind 'flows' (the command line: --table-kind flows) to read the numbers as flows`,
+        where: { file: r.mapping.file },
+      };
+      return { table: c.table, mapping: c.mapping, findings: [...sb.findings, note, ...c.findings] };
+    }
+  }
   return { table: r.table, mapping: r.mapping, findings: [...sb.findings, ...r.findings] };
+}
+
+const COEFFICIENT_WORDS = /\b(coefficients?|direct requirements|input structure|per (unit|dollar|euro|pound|\$|€|£)( of output)?)\b/i;
+
+/**
+ * Whether a table read as flows is really a table of technical coefficients: it has no total
+ * output row or column, every intermediate value lies in [0, 1), and either its title says so or
+ * every column of intermediate and primary inputs sums to 1 (within 1%).
+ */
+function looksLikeCoefficients(r: TableRead): string | undefined {
+  if (r.mapping.output?.from !== 'row-sums') return undefined;
+  const t = r.table;
+  const n = t.sectors.codes.length;
+  const z = t.Z.data;
+  for (let k = 0; k < z.length; k++) if (!(z[k]! >= 0 && z[k]! < 1)) return undefined;
+  const words = [t.meta.title ?? '', ...(t.meta.notes ?? [])].join(' ');
+  if (COEFFICIENT_WORDS.test(words)) return 'its title speaks of coefficients';
+  if (t.V.rows === 0) return undefined;
+  for (let j = 0; j < n; j++) {
+    let s = 0;
+    for (let i = 0; i < n; i++) s += z[i * n + j]!;
+    for (let i = 0; i < t.V.rows; i++) s += t.V.data[i * n + j]!;
+    if (t.imports) s += t.imports[j]!;
+    if (Math.abs(s - 1) > 0.01) return undefined;
+  }
+  return 'every column of inputs sums to 1 and there is no total output';
 }
 
 /** Read a plain labelled matrix (such as total requirements): every row and column that is not a total or ignored. */
