@@ -64,9 +64,9 @@ const SAMPLE_LINES = 2000;
 const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
 const CHUNK = 1 << 20;
 
-const ROW_NAMES = /^(row|rows|from|origin|source|supplier|seller|producer|industry code|commodity code|i)(\s*code)?$/i;
-const COL_NAMES = /^(col|column|columns|to|destination|target|user|buyer|purchaser|j)(\s*code)?$/i;
-const VALUE_NAMES = /^(value|values|amount|flow|flows|obs_value|coefficient|coefficients|val)$/i;
+const ROW_NAMES = /^(row|rows|from|origin|source|supplier|seller|producer|industry code|commodity code|i)([\s_-]*(code|id|key))?$/i;
+const COL_NAMES = /^(col|column|columns|to|destination|target|user|buyer|purchaser|j)([\s_-]*(code|id|key))?$/i;
+const VALUE_NAMES = /^(value|values|amount|flow|flows|obs_value|coefficient|coefficients|val)([\s_-]*\w+)?$/i;
 
 /** Codes to indices, looked up from bytes without making a string per line. */
 class CodeTable {
@@ -332,16 +332,26 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
     return { num, filled, labelLike: filled > 0 && spaced >= filled * 0.5 && len / filled > 10, constant: distinct.size === 1 && filled === data.length, numeric: filled > 0 && num === filled };
   });
   if (row === undefined || col === undefined) {
-    const codeFields: number[] = [];
-    for (let i = 0; i < nf && codeFields.length < 2; i++) {
-      if (i === value || i === row || i === col) continue;
-      if (prof[i]!.filled === 0 || prof[i]!.labelLike) continue;
-      codeFields.push(i);
-    }
+    const pick = (skipConstant: boolean) => {
+      const out: number[] = [];
+      for (let i = 0; i < nf && out.length < 2; i++) {
+        if (i === value || i === row || i === col) continue;
+        if (prof[i]!.filled === 0 || prof[i]!.labelLike) continue;
+        // A field with one value on every line (a region, a year, a table number) holds no codes,
+        // unless too few fields are left without it (a table of one sector).
+        if (skipConstant && prof[i]!.constant) continue;
+        out.push(i);
+      }
+      return out;
+    };
+    let codeFields = pick(true);
+    // Two code fields are needed, and a value field after them.
+    const valueLeft = (f: number[]) => f.length === 2 && prof.some((p, i) => i > f[1]! && p.numeric && !p.constant);
+    if (!valueLeft(codeFields)) codeFields = pick(false);
     if (row === undefined && col === undefined) {
       if (codeFields.length < 2) throw new InputError('no-code-fields', `file ${file}: two fields of codes (row and column) were not found`, { file }, 'Give rowCodeField and columnCodeField (1-based)');
       [row, col] = codeFields as [number, number];
-      why.push(`fields ${row + 1} and ${col + 1} are the first two that are not long labels`);
+      why.push(`fields ${row + 1} and ${col + 1} are the first two that are neither long labels nor the same on every line`);
     } else if (row === undefined) row = codeFields[0];
     else col = codeFields[0];
     if (row === undefined || col === undefined) throw new InputError('no-code-fields', `file ${file}: a field of codes was not found`, { file }, 'Give rowCodeField and columnCodeField (1-based)');

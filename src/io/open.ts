@@ -54,12 +54,29 @@ export async function readGrid(bytes: Uint8Array, options: GridOptions): Promise
 }
 
 /**
- * Whether a sheet is long (one line per cell: codes repeat down the first two columns, a few
- * columns in all) rather than wide.
+ * Whether a sheet is long (one line per cell: codes repeat down two columns, a few columns in
+ * all) rather than wide.
  */
 export function guessShape(grid: Grid): 'wide' | 'long' {
   if (grid.colCount > 20 || grid.rowCount < 3) return 'wide';
   const n = Math.min(grid.rowCount, 5000);
+  // The code fields: the first two columns, passing over any that hold one value on every line
+  // (a region, a year, a table number).
+  const first = new Map<number, string>();
+  const varies = new Set<number>();
+  for (let r = 1; r < n; r++) {
+    const row = grid.rows[r]!;
+    for (let c = 0; c < row.kinds.length; c++) {
+      if (row.kinds[c] === EMPTY) continue;
+      const t = normalizeCode(grid.text(r, c));
+      const f = first.get(c);
+      if (f === undefined) first.set(c, t);
+      else if (f !== t) varies.add(c);
+    }
+  }
+  const fields = [...varies].sort((p, q) => p - q).slice(0, 2);
+  if (fields.length < 2) return 'wide';
+  const [f0, f1] = fields as [number, number];
   const a = new Set<string>();
   const b = new Set<string>();
   const pairs = new Set<string>();
@@ -67,14 +84,14 @@ export function guessShape(grid: Grid): 'wide' | 'long' {
   let numeric = false;
   for (let r = 0; r < n; r++) {
     const row = grid.rows[r]!;
-    if (row.kinds.length < 3 || row.kinds[0] === EMPTY || row.kinds[1] === EMPTY) continue;
+    if (row.kinds.length < 3 || row.kinds[f0] === EMPTY || row.kinds[f1] === EMPTY) continue;
     lines++;
-    const x = normalizeCode(grid.text(r, 0));
-    const y = normalizeCode(grid.text(r, 1));
+    const x = normalizeCode(grid.text(r, f0));
+    const y = normalizeCode(grid.text(r, f1));
     a.add(x);
     b.add(y);
     pairs.add(`${x}\u0000${y}`);
-    for (let c = 2; c < row.kinds.length; c++) if (row.kinds[c] === 1) numeric = true;
+    for (let c = f1 + 1; c < row.kinds.length; c++) if (row.kinds[c] === 1) numeric = true;
   }
   if (lines < 3 || !numeric) return 'wide';
   return a.size <= lines * 0.8 && b.size <= lines * 0.8 && pairs.size >= lines * 0.9 ? 'long' : 'wide';
