@@ -20,6 +20,7 @@ import { checks } from '../../engine/index';
 import { readTableFile } from '../../src/io/index';
 import type { Browser, Served } from './helpers';
 import { buildSite, launch, REPO, requireChromium, screenshot, serveSite } from './helpers';
+import { BEA_DIR, BEA_SOURCE, beaAvailable, readTriplets } from '../helpers/reference';
 
 const chromium = requireChromium('the workbench browser test');
 
@@ -234,6 +235,27 @@ describe.skipIf(!chromium)('the workbench in Chromium: files, projects and expor
     await expect.poll(header, { timeout: 15_000 }).toMatch(/^vellan-coast\.xlsx/);
     await nav('Scenarios');
     await expect.poll(() => page.locator('.pick').count()).toBe(3);
+  });
+
+  it.skipIf(!beaAvailable())(`reads make and use tables given as two files into an industry-by-industry table whose output multipliers are the column sums of Table 8 (source: ${BEA_SOURCE})`, async () => {
+    await nav('Open');
+    await fileInput().setInputFiles([join(BEA_DIR, 'make.txt'), join(BEA_DIR, 'use.txt')]);
+    await page.locator('#layout-h').waitFor();
+    await expect.poll(() => page.getByRole('radio', { name: 'Make table: make.txt' }).isChecked()).toBe(true);
+    await page.getByLabel('Scrap commodity code').fill('S004');
+    await page.getByRole('combobox', { name: /^Kind of requirements/ }).selectOption('industry-by-industry');
+    await screenshot(page, 'workbench-supply-use');
+    await page.getByRole('button', { name: 'Read the table' }).click();
+    await page.locator('#checks-h').waitFor({ timeout: 30_000 });
+    await expect.poll(header).toBe('make.txt + use.txt');
+    await nav('Multipliers');
+    const sums = new Map<string, number>();
+    for (const t of readTriplets('total-requirements-industry-by-industry.txt', 4)) sums.set(t.col, (sums.get(t.col) ?? 0) + t.value);
+    const f3 = new Intl.NumberFormat('en-US', { minimumFractionDigits: 3, maximumFractionDigits: 3 });
+    for (const code of ['1110', '2302', '3254']) {
+      const row = page.locator('#mult-table tbody tr').filter({ has: page.locator('th', { hasText: code }) }).first();
+      await expect.poll(() => row.textContent(), { timeout: 20_000 }).toContain(f3.format(sums.get(code)!));
+    }
   });
 
   it('sent no request beyond 127.0.0.1 and raised no page error', () => {

@@ -330,6 +330,16 @@ export async function singleTable(): Promise<void> {
   await detect(0);
 }
 
+/**
+ * The mapping to read with: the one shown, except the blank rule when the user did not choose it
+ * (src/io then applies its default and says so in a note, as the command line does).
+ */
+function confirmed(p: PendingSheet): LayoutMapping {
+  const m = $state.snapshot(p.mapping) as LayoutMapping;
+  if (p.given.blanks === undefined) delete (m as Partial<LayoutMapping>).blanks;
+  return m;
+}
+
 /** Read the table with the confirmed layout and make it current (the views follow). */
 export async function confirmLayout(): Promise<void> {
   if (layout.mode === 'table') {
@@ -338,7 +348,7 @@ export async function confirmLayout(): Promise<void> {
       app.error = 'no layout was found for this sheet yet: set the code row and column, or the roles, first';
       return;
     }
-    const mapping = $state.snapshot(p.mapping) as LayoutMapping;
+    const mapping = confirmed(p);
     const r = await run<ReadResult>('Reading the table', 'file-read', { id: p.info.id, mapping });
     if (!r) return;
     const info = p.info;
@@ -357,8 +367,8 @@ export async function confirmLayout(): Promise<void> {
   const r = await run<SupplyUseResult>('Reading the make and use tables', 'file-read-supply-use', {
     make: mk.info.id,
     use: us.info.id,
-    makeMapping: $state.snapshot(mk.mapping),
-    useMapping: $state.snapshot(us.mapping),
+    makeMapping: confirmed(mk),
+    useMapping: confirmed(us),
     kind: layout.suKind,
     technology: layout.technology,
     ...(layout.scrap.trim() ? { scrap: layout.scrap.trim() } : {}),
