@@ -11,7 +11,7 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { render } from 'svelte/server';
 import { checks } from '../../engine/index';
-import { detectLayout, readTableFile, readXlsx } from '../../src/io/index';
+import { detectLayout, readLongCsv, readTableFile, readXlsx } from '../../src/io/index';
 import type { LayoutMapping } from '../../src/io/index';
 import { describeCell, findingCell, parseA1, parseRowList, regionIndex, regionOf, rowListText } from '../../web/lib/layout';
 import PreviewGrid from '../../web/components/PreviewGrid.svelte';
@@ -51,6 +51,12 @@ describe.skipIf(!beaAvailable())(`blocks of the agency's use spreadsheet (source
     expect(regionOf(ix, rowOf('T008'), colOf('1110'))).toBe('total');
     // Value added under final uses is no block of the table.
     expect(regionOf(ix, rowOf('V001'), colOf('F010'))).toBe('');
+  });
+
+  it('a long file (make.txt: industry, commodity, table number, value) shows its code fields and its value field', () => {
+    const long = readLongCsv(new Uint8Array(readFileSync(join(BEA_DIR, 'make.txt'))), { file: 'make.txt' });
+    const ix = regionIndex({ ...long.mapping, rows: [], columns: [], output: { from: 'none' }, format: 'ripplewise-layout', version: 1, kind: 'make', blanks: 'error' } as LayoutMapping);
+    expect([1, 2, 3, 4].map((c) => regionOf(ix, 5, c))).toEqual(['code', 'code', '', 'value']);
   });
 });
 

@@ -23,6 +23,7 @@ export type Region =
   | 'total'
   | 'satellite'
   | 'ignore'
+  | 'value'
   | '';
 
 /** The blocks in words, for the legend and for screen readers. */
@@ -40,6 +41,7 @@ export const REGION_NAMES: Record<Exclude<Region, ''>, string> = {
   total: 'totals and output',
   satellite: 'satellites',
   ignore: 'ignored',
+  value: 'values (one cell per line)',
 };
 
 export interface RegionIndex {
@@ -90,7 +92,7 @@ export function regionOf(ix: RegionIndex, row: number, column: number): Region {
   if (ix.shape === 'long') {
     if (ix.fields.header === row) return 'header';
     if (column === ix.fields.row || column === ix.fields.col) return 'code';
-    if (column === ix.fields.value) return 'intermediate';
+    if (column === ix.fields.value) return 'value';
     return '';
   }
   if (ix.titles.has(row)) return 'title';
