@@ -66,6 +66,22 @@ export async function openWorkbook(bytes: Uint8Array, file: string, limitsIn?: L
   return wb;
 }
 
+/** How many of a sheet's first 200 rows hold at least two numbers (stops counting at 2). */
+function numericRows(w: import('exceljs').Worksheet): number {
+  let rows = 0;
+  const last = Math.min(w.actualRowCount ? w.rowCount : 0, 200);
+  for (let r = 1; r <= last && rows < 2; r++) {
+    let nums = 0;
+    w.getRow(r).eachCell((cell) => {
+      const v = cell.value as unknown;
+      const x = v && typeof v === 'object' && 'result' in (v as object) ? (v as { result: unknown }).result : v;
+      if (typeof x === 'number' || (typeof x === 'string' && /^\s*-?[\d.,]+\s*$/.test(x) && /\d/.test(x))) nums++;
+    });
+    if (nums >= 2) rows++;
+  }
+  return rows;
+}
+
 /** Read one sheet of an XLSX workbook into a grid. */
 export async function readXlsx(bytes: Uint8Array, options: XlsxOptions): Promise<XlsxRead> {
   const { file } = options;
@@ -77,10 +93,13 @@ export async function readXlsx(bytes: Uint8Array, options: XlsxOptions): Promise
   let ws: import('exceljs').Worksheet | undefined;
   const want = options.sheet;
   if (want === undefined) {
-    ws = wb.worksheets.find((w) => w.actualRowCount > 0) ?? wb.worksheets[0];
+    // The first sheet that looks like a table (rows with several numbers), else the first with cells:
+    // agency workbooks often open with a contents or notes sheet.
+    const tabular = wb.worksheets.find((w) => numericRows(w) >= 2);
+    ws = tabular ?? wb.worksheets.find((w) => w.actualRowCount > 0) ?? wb.worksheets[0];
     const others = wb.worksheets.filter((w) => w !== ws && w.actualRowCount > 0).map((w) => w.name);
     if (ws && others.length) {
-      findings.push({ code: 'sheet-chosen', severity: 'note', message: `file ${file}: read sheet '${ws.name}', the first with cells; the workbook also has ${others.map((s) => `'${s}'`).join(', ')} (choose one with sheet)`, where: { file, sheet: ws.name } });
+      findings.push({ code: 'sheet-chosen', severity: 'note', message: `file ${file}: read sheet '${ws.name}', the first ${tabular ? 'that holds a table of numbers' : 'with cells'}; the workbook also has ${others.map((s) => `'${s}'`).join(', ')} (choose one with sheet)`, where: { file, sheet: ws.name } });
     }
   } else if (typeof want === 'number') {
     if (!Number.isInteger(want) || want < 1 || want > wb.worksheets.length) {
