@@ -17,7 +17,7 @@ import { join } from 'node:path';
 import type { Download, Page } from 'playwright-core';
 import { inverse as mlInverse, Matrix as MlMatrix } from 'ml-matrix';
 import { checks } from '../../engine/index';
-import { readTableFile } from '../../src/io/index';
+import { readTableFile, writeWorkbook } from '../../src/io/index';
 import type { Browser, Served } from './helpers';
 import { buildSite, launch, REPO, requireChromium, screenshot, serveSite } from './helpers';
 import { BEA_DIR, BEA_SOURCE, beaAvailable, readTriplets } from '../helpers/reference';
@@ -256,6 +256,34 @@ describe.skipIf(!chromium)('the workbench in Chromium: files, projects and expor
       const row = page.locator('#mult-table tbody tr').filter({ has: page.locator('th', { hasText: code }) }).first();
       await expect.poll(() => row.textContent(), { timeout: 20_000 }).toContain(f3.format(sums.get(code)!));
     }
+  });
+
+  it.skipIf(!beaAvailable())(`reads make and use tables from two sheets of one workbook (source: ${BEA_SOURCE}, Tables 3, 4 and 8)`, async () => {
+    // The agency's make and use lines as two sheets of one workbook (codes as text, values as numbers).
+    const sheet = (file: string, fields: number) =>
+      readFileSync(join(BEA_DIR, file), 'utf8')
+        .split(/\r?\n/)
+        .filter((l) => l.trim())
+        .map((l) => l.split(',').slice(0, fields).map((x, i) => (i < 2 ? x.trim() : Number(x))));
+    const book = join(work, 'make-and-use.xlsx');
+    writeFileSync(book, await writeWorkbook([{ name: 'Make', rows: sheet('make.txt', 4) }, { name: 'Use', rows: sheet('use.txt', 5) }]));
+    await nav('Open');
+    await fileInput().setInputFiles(book);
+    await page.locator('#layout-h').waitFor();
+    await page.getByRole('radio', { name: 'Supply-use tables (make and use)' }).check();
+    await page.getByRole('combobox', { name: /^Other sheet/ }).selectOption('Use');
+    await page.getByRole('button', { name: 'Use this sheet as the other table' }).click();
+    await expect.poll(() => page.getByRole('radio', { name: 'Make table: make-and-use.xlsx (Make)' }).isChecked()).toBe(true);
+    await page.getByLabel('Scrap commodity code').fill('S004');
+    await page.getByRole('button', { name: 'Read the table' }).click();
+    await page.locator('#checks-h').waitFor({ timeout: 30_000 });
+    await expect.poll(header).toBe('make-and-use.xlsx (Make + Use)');
+    await nav('Multipliers');
+    const sums = new Map<string, number>();
+    for (const t of readTriplets('total-requirements-industry-by-industry.txt', 4)) sums.set(t.col, (sums.get(t.col) ?? 0) + t.value);
+    const f3 = new Intl.NumberFormat('en-US', { minimumFractionDigits: 3, maximumFractionDigits: 3 });
+    const row = page.locator('#mult-table tbody tr').filter({ has: page.locator('th', { hasText: '331A' }) }).first();
+    await expect.poll(() => row.textContent(), { timeout: 20_000 }).toContain(f3.format(sums.get('331A')!));
   });
 
   it('sent no request beyond 127.0.0.1 and raised no page error', () => {

@@ -383,7 +383,8 @@ export async function confirmLayout(): Promise<void> {
     files: [fileOf(mk, 'make', r.mappings.make), fileOf(us, 'use', r.mappings.use)],
     supplyUse: { kind: layout.suKind, technology: layout.technology, ...(layout.scrap.trim() ? { scrap: layout.scrap.trim() } : {}) },
   };
-  const ok = await useTable(`${mk.info.name} + ${us.info.name}`, r.table, { source, readFindings: r.findings });
+  const name = mk.info.name === us.info.name ? `${mk.info.name} (${mk.info.sheet ?? 'make'} + ${us.info.sheet ?? 'use'})` : `${mk.info.name} + ${us.info.name}`;
+  const ok = await useTable(name, r.table, { source, readFindings: r.findings });
   if (ok) sourceSheet.id = '';
 }
 
