@@ -220,7 +220,10 @@ describe.skipIf(!chromium)('the workbench in Chromium: files, projects and expor
     expect(doc.source.name).toBe('vellan-coast.xlsx');
     expect(doc.source.mapping.format).toBe('ripplewise-layout');
     await page.getByRole('button', { name: 'Start fresh…' }).click();
-    await page.getByRole('button', { name: 'Keep my work' }).click();
+    // The safe choice has the focus, and Escape keeps the work.
+    await expect.poll(() => page.evaluate(() => document.activeElement?.textContent)).toBe('Keep my work');
+    await page.keyboard.press('Escape');
+    expect(await page.getByRole('alertdialog').count()).toBe(0);
     expect(await header()).toMatch(/^vellan-coast\.xlsx/);
     await page.getByRole('button', { name: 'Start fresh…' }).click();
     await page.getByRole('button', { name: 'Yes, start fresh' }).click();
