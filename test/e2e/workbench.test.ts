@@ -287,6 +287,13 @@ describe.skipIf(!chromium)('the workbench in Chromium: files, projects and expor
     const f3 = new Intl.NumberFormat('en-US', { minimumFractionDigits: 3, maximumFractionDigits: 3 });
     const row = page.locator('#mult-table tbody tr').filter({ has: page.locator('th', { hasText: '331A' }) }).first();
     await expect.poll(() => row.textContent(), { timeout: 20_000 }).toContain(f3.format(sums.get('331A')!));
+    // Numbers in the locale chosen in the settings (German: a decimal comma).
+    await page.getByRole('combobox', { name: /^Number format/ }).selectOption('de-DE');
+    expect(await page.locator('#locale-sample').textContent()).toBe(new Intl.NumberFormat('de-DE', { maximumFractionDigits: 2 }).format(1234567.891));
+    const de = new Intl.NumberFormat('de-DE', { minimumFractionDigits: 3, maximumFractionDigits: 3 });
+    await expect.poll(() => page.locator('#mult-table tbody tr').filter({ has: page.locator('th', { hasText: '331A' }) }).first().textContent(), { timeout: 20_000 }).toContain(de.format(sums.get('331A')!));
+    await screenshot(page, 'workbench-multipliers-de');
+    await page.getByRole('combobox', { name: /^Number format/ }).selectOption('');
   });
 
   it('sent no request beyond 127.0.0.1 and raised no page error', () => {
