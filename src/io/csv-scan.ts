@@ -164,6 +164,51 @@ export class CsvScanner {
 
 const POW10 = [1, 1e1, 1e2, 1e3, 1e4, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10, 1e11, 1e12, 1e13, 1e14, 1e15, 1e16, 1e17, 1e18, 1e19, 1e20, 1e21, 1e22];
 
+/**
+ * The common case of a number field in one pass: [-]digits[.digits] with a decimal point and at
+ * most 15 significant digits, which converts exactly as m / 10^frac. NaN for anything else (the
+ * caller then reads the field in full).
+ */
+export function plainDecimal(b: Uint8Array, s: number, e: number): number {
+  let p = s;
+  const neg = b[p] === 45;
+  if (neg) p++;
+  let m = 0;
+  let sig = 0;
+  let frac = 0;
+  let digits = 0;
+  let c = 0;
+  while (p < e) {
+    c = b[p]!;
+    if (c < 48 || c > 57) break;
+    if (m !== 0 || c !== 48) {
+      m = m * 10 + (c - 48);
+      sig++;
+    }
+    digits++;
+    p++;
+  }
+  if (p < e && c === 46) {
+    p++;
+    const f0 = p;
+    while (p < e) {
+      c = b[p]!;
+      if (c < 48 || c > 57) break;
+      if (m !== 0 || c !== 48) {
+        m = m * 10 + (c - 48);
+        sig++;
+      }
+      p++;
+    }
+    frac = p - f0;
+    if (frac === 0) return NaN;
+    digits += frac;
+  }
+  if (p !== e || digits === 0 || sig > 15 || frac > 22) return NaN;
+  const v = frac ? m / POW10[frac]! : m;
+  return neg ? -v : v;
+}
+
 /** Result flags of `scanNumber`, read from `numberScan` after a call. */
 export const numberScan = { decimalSeen: false, ambiguous: false };
 

@@ -11,12 +11,11 @@
 import Papa from 'papaparse';
 import { cellRef, columnLetters, InputError, type Where } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
-import { CsvScanner, ESCAPED, type FieldSink, fieldText, isShortestText, numberScan, scanNumber } from './csv-scan';
+import { CsvScanner, ESCAPED, type FieldSink, fieldText, isShortestText, numberScan, plainDecimal, scanNumber } from './csv-scan';
 import { decodeBytes, type Encoding, sniffBom } from './decode';
 import { restoreText } from './escape';
 import { EMPTY, Grid, GridBuilder, type GridRow, TEXT, TEXT_ZONE_COLS, TEXT_ZONE_ROWS } from './grid';
 
-const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
 import { checkBytes, type Limits, limitsOf, tooManyCells } from './limits';
 import { type DecimalMark, type NumberConventions, type NumberOptions, NumberReader } from './numbers';
 
@@ -150,43 +149,9 @@ class ScanGridSink implements FieldSink {
           builder.empty();
           continue;
         }
-        let p = s;
-        const neg = b[p] === 45;
-        if (neg) p++;
-        let m = 0;
-        let sig = 0;
-        let frac = 0;
-        let digits = 0;
-        let c = 0;
-        while (p < e) {
-          c = b[p]!;
-          if (c < 48 || c > 57) break;
-          if (m !== 0 || c !== 48) {
-            m = m * 10 + (c - 48);
-            sig++;
-          }
-          digits++;
-          p++;
-        }
-        if (p < e && c === 46) {
-          p++;
-          const f0 = p;
-          while (p < e) {
-            c = b[p]!;
-            if (c < 48 || c > 57) break;
-            if (m !== 0 || c !== 48) {
-              m = m * 10 + (c - 48);
-              sig++;
-            }
-            p++;
-          }
-          frac = p - f0;
-          if (frac === 0) p = -1;
-          digits += frac;
-        }
-        if (p === e && digits > 0 && sig <= 15 && frac <= 22) {
-          const v = frac ? m / POW10[frac]! : m;
-          builder.plainNumber(neg ? -v : v);
+        const v = plainDecimal(b, s, e);
+        if (v === v) {
+          builder.plainNumber(v);
           continue;
         }
       }

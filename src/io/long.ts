@@ -18,7 +18,7 @@ import type { Finding } from '../../engine/findings';
 import type { Axis } from '../../engine/table';
 import type { Matrix } from '../../engine/linalg/matrix';
 import { type Entry, DenseBlock } from './block';
-import { CsvScanner, ESCAPED, type FieldSink, fieldText, numberScan, scanNumber } from './csv-scan';
+import { CsvScanner, ESCAPED, type FieldSink, fieldText, numberScan, plainDecimal, scanNumber } from './csv-scan';
 import { type CsvOptions, DELIMITERS, type Delimiter, detectDelimiter, whereAt } from './csv';
 import { decodeBytes, type Encoding, sniffBom } from './decode';
 import { EMPTY, type Grid, normalizeCode, normalizeLabel } from './grid';
@@ -61,7 +61,6 @@ export interface LongTable {
 }
 
 const SAMPLE_LINES = 2000;
-const POW10 = Array.from({ length: 23 }, (_, i) => 10 ** i);
 const CHUNK = 1 << 20;
 
 const ROW_NAMES = /^(row|rows|from|origin|source|supplier|seller|producer|industry code|commodity code|i)([\s_-]*(code|id|key))?$/i;
@@ -835,43 +834,9 @@ class LongSink implements FieldSink {
     const dec = r.numbers.decimal;
     if (dec === '.' && s < e && flags === 0) {
       // The common case in one pass: [-]digits[.digits], at most 15 significant digits.
-      let p = s;
-      const neg = b[p] === 45;
-      if (neg) p++;
-      let m = 0;
-      let sig = 0;
-      let frac = 0;
-      let digits = 0;
-      let c = 0;
-      while (p < e) {
-        c = b[p]!;
-        if (c < 48 || c > 57) break;
-        if (m !== 0 || c !== 48) {
-          m = m * 10 + (c - 48);
-          sig++;
-        }
-        digits++;
-        p++;
-      }
-      if (p < e && c === 46) {
-        p++;
-        const f0 = p;
-        while (p < e) {
-          c = b[p]!;
-          if (c < 48 || c > 57) break;
-          if (m !== 0 || c !== 48) {
-            m = m * 10 + (c - 48);
-            sig++;
-          }
-          p++;
-        }
-        frac = p - f0;
-        if (frac === 0) p = -1;
-        digits += frac;
-      }
-      if (p === e && digits > 0 && sig <= 15 && frac <= 22) {
-        const v = frac ? m / POW10[frac]! : m;
-        r.add(ri, ci, neg ? -v : v);
+      const v = plainDecimal(b, s, e);
+      if (v === v) {
+        r.add(ri, ci, v);
         r.record++;
         return;
       }
