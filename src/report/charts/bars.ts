@@ -57,7 +57,8 @@ export function groupedBars(input: GroupedBarsInput): Chart {
     }
   }
   if (lo === hi) hi = lo + 1;
-  const x = scaleLinear().domain([lo, hi]).nice().range([labelW, width - right]);
+  // Room left of the bars for the value labels of negative bars.
+  const x = scaleLinear().domain([lo, hi]).nice().range([labelW + (lo < 0 ? 48 : 0), width - right]);
   const parts: string[] = [];
   parts.push(legend(series, labelW));
   parts.push(valueAxis(x, top, height, unit, fmt));
