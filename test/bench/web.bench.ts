@@ -7,6 +7,8 @@
  * - 400 sectors (engine/synthetic.ts syntheticTable, 4 regions × 100): the worker's checks
  *   ('set-table', the table sent to the worker and checked) and multipliers of every measure,
  *   as the page records them (performance measures rw:<op> around each worker call);
+ * - Monte Carlo on the 400-sector table, 300 draws, in the engine worker alone and shared among
+ *   two Web Workers (the speed-up is printed; the results are equal, see test/e2e/views.test.ts);
  * - bundle: the entry chunk and what index.html preloads, gzipped, and exceljs in a chunk of its
  *   own that is not fetched until a workbook is opened (requests recorded);
  * - large table: n = 5,000 (10 regions × 500, 12% dense) in a module worker
@@ -17,7 +19,7 @@
  * measures speed only.
  */
 import { mkdirSync, mkdtempSync, readdirSync, readFileSync, rmSync, statSync, writeFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { availableParallelism, tmpdir } from 'node:os';
 import { join, relative } from 'node:path';
 import { gzipSync } from 'node:zlib';
 import { syntheticTable, toPlain } from '../../engine/index';
@@ -99,6 +101,18 @@ try {
   const setMs = median(ops.map((o) => o.set));
   const multMs = median(ops.map((o) => o.mult));
 
+  // ---- 400 sectors: Monte Carlo in the engine worker alone and shared among Web Workers.
+  await page.getByRole('navigation').getByRole('button', { name: 'Sensitivity', exact: true }).click();
+  await page.getByLabel('Draws', { exact: true }).fill('300');
+  const mcRuns: [string, number][] = [];
+  for (const w of ['1', '2']) {
+    await page.evaluate(() => performance.clearMeasures());
+    await page.getByRole('combobox', { name: /^Workers/ }).selectOption(w);
+    await page.getByRole('button', { name: 'Run Monte Carlo' }).click();
+    await page.waitForFunction(() => performance.getEntriesByName('rw:monte-carlo').length > 0, undefined, { timeout: 120_000 });
+    mcRuns.push([w, await page.evaluate(() => performance.getEntriesByName('rw:monte-carlo').at(-1)!.duration)]);
+  }
+
   // ---- exceljs is fetched once a workbook is opened.
   requests.length = 0;
   await page.getByRole('navigation').getByRole('button', { name: 'Open', exact: true }).click();
@@ -114,11 +128,13 @@ try {
       ['Multipliers view after the click', multView, 1],
       ['400 sectors: set-table (send + checks), median', Math.round(setMs), ops.map((o) => Math.round(o.set)).join(' ')],
       ['400 sectors: multipliers of every measure, median', Math.round(multMs), ops.map((o) => Math.round(o.mult)).join(' ')],
+      ...mcRuns.map(([w, ms]): [string, number, number] => [`400 sectors: Monte Carlo, 300 draws, ${w === '1' ? 'in the engine worker' : `${w} Web Workers`}`, Math.round(ms), 1]),
     ],
   );
   console.log('');
   target('first view of the demo within 1.5 s of load', median(firstView) <= 1500, `${Math.round(median(firstView))} ms`);
   target('400 sectors: checks and multipliers in the worker at most 1 s', setMs + multMs <= 1000, `${Math.round(setMs)} + ${Math.round(multMs)} ms`);
+  console.log(`Monte Carlo speed-up with 2 Web Workers over the engine worker alone: ${(mcRuns[0]![1] / mcRuns[1]![1]).toFixed(2)}× (${availableParallelism()} cores here)`);
   target('main bundle at most 300 KB gzipped', mainGz <= 300 * 1024, `${kb(mainGz)} KB gzipped over ${sizeRows.filter((r) => r.entry).length} file(s)`);
   target(
     'exceljs in its own chunk, fetched only when a workbook is opened',

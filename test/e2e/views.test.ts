@@ -158,6 +158,21 @@ describe.skipIf(!chromium)('the model views in Chromium', () => {
     await expect.poll(() => page.getByText(/of 400 draws accepted/).count(), { timeout: 20_000 }).toBe(1);
     expect(await page.locator('figure.chart svg title', { hasText: '5th to 95th percentile' }).count()).toBe(1);
 
+    // Shared among two Web Workers and run in the engine worker alone, the same seed gives the
+    // same percentiles, digit for digit (every draw depends only on the seed and its index).
+    const mcCells = () => page.locator('#mc-table tbody td').allTextContents();
+    await page.getByRole('combobox', { name: /^Workers/ }).selectOption('2');
+    await page.getByRole('button', { name: 'Run Monte Carlo' }).click();
+    await expect.poll(() => page.getByText(/of 400 draws accepted \(seed 1; shared among 2 workers\)/).count(), { timeout: 20_000 }).toBe(1);
+    const shared = await mcCells();
+    await page.getByRole('combobox', { name: /^Workers/ }).selectOption('1');
+    await page.getByRole('button', { name: 'Run Monte Carlo' }).click();
+    await expect.poll(() => page.getByText(/of 400 draws accepted \(seed 1; run in the engine worker\)/).count(), { timeout: 20_000 }).toBe(1);
+    const alone = await mcCells();
+    expect(shared.length).toBeGreaterThan(10);
+    expect(shared).toEqual(alone);
+    await page.getByRole('combobox', { name: /^Workers/ }).selectOption('auto');
+
     // A long run: progress moves, the page answers, and Cancel stops it.
     await page.getByLabel('Draws', { exact: true }).fill('50000');
     await page.getByRole('button', { name: 'Run Monte Carlo' }).click();

@@ -234,6 +234,10 @@ describe('worker operations: sensitivity, what-if and Monte Carlo', () => {
     await expect(call('monte-carlo', { cv: 0.1, draws: 5000, seed: 1, chunk: 5 }, 2)).rejects.toBeInstanceOf(CancelledError);
     await expect(call('monte-carlo', { cv: 0.1, draws: 0, seed: 1 })).rejects.toThrow(/number of draws/);
     await expect(call('monte-carlo', { cv: 10, draws: 10, seed: 1 })).rejects.toThrow(/coefficient of variation/);
+    await expect(call('monte-carlo', { cv: 0.1, draws: 10, seed: 1, workers: 0 })).rejects.toThrow(/number of workers must be a whole number from 1 to 16; got 0/);
+    await expect(call('monte-carlo', { cv: 0.1, draws: 10, seed: 1, workers: 2.5 })).rejects.toThrow(/number of workers/);
+    // Node has no Web Workers: the run stays in this thread and says so.
+    expect(((await call('monte-carlo', { cv: 0.1, draws: 10, seed: 1, workers: 2 })).value as MonteCarloView).workers).toBe(1);
   });
 });
 

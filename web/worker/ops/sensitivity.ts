@@ -1,8 +1,8 @@
 /**
  * Sensitivity in the worker: the tornado and the most influential coefficients for a chosen
  * result, what-if edits of coefficients with an instant update of the multipliers (Woodbury, no
- * new factorisation), and Monte Carlo on the coefficients run in chunks, with progress and a
- * cooperative cancel between chunks.
+ * new factorisation), and Monte Carlo on the coefficients, run in chunks in this worker or shared
+ * among Web Workers of its own, with progress and cancellation either way.
  *
  * A result is r = c′ L d on the open model (the engine's sensitivity analysis does not include
  * the household closure): a measure's multiplier for one sector, or a scenario's total impact.
@@ -24,7 +24,9 @@ import {
   tornado,
 } from '../../../engine/index';
 import type { Bin, DrawBlock, Finding, MonteCarloSpec, ResultTarget, Scenario, Summary, TornadoData } from '../../../engine/index';
-import type { Handler } from '../context';
+import { monteCarloInWebWorkers } from '../../../src/parallel/montecarlo-web';
+import { taskRanges } from '../../../src/parallel/montecarlo-protocol';
+import type { Handler, HandlerContext } from '../context';
 import { analysisModels, measureFor, sectorAt, transferArrays } from './models';
 import { cached, current, openModel } from './session';
 
@@ -103,6 +105,12 @@ export interface MonteCarloArgs {
   focus?: { sector?: string; scenario?: string };
   /** Draws per chunk to start with (the chunk then adapts to about 40 ms). */
   chunk?: number;
+  /**
+   * Web Workers to share the draws among: 1 runs them in this worker; more start that many
+   * workers of their own; absent means one per processor core (at most 8) when the run has at
+   * least 200 draws. The result is the same, draw for draw, whatever the number.
+   */
+  workers?: number;
 }
 
 export interface Band {
@@ -131,6 +139,8 @@ export interface MonteCarloView {
   findings: Finding[];
   cautions: readonly string[];
   chunks: number;
+  /** The number of workers the draws ran on (1: in the engine worker itself). */
+  workers: number;
 }
 
 /** Resolve a target choice into the engine's target on the open model. */
@@ -171,6 +181,43 @@ function band(list: readonly Summary[]): Band {
 }
 
 const MAX_DRAWS = 50_000;
+const MAX_WORKERS = 16;
+
+/** How many workers a run of `draws` draws gets (see MonteCarloArgs.workers). */
+function workersFor(asked: unknown, draws: number): number {
+  const canSpawn = typeof Worker !== 'undefined';
+  if (asked !== undefined) {
+    if (typeof asked !== 'number' || !Number.isInteger(asked) || asked < 1 || asked > MAX_WORKERS) {
+      throw new InputError('bad-workers', `the number of workers must be a whole number from 1 to ${MAX_WORKERS}; got ${JSON.stringify(asked)}`, { text: String(asked) });
+    }
+    return canSpawn ? asked : 1;
+  }
+  if (!canSpawn || draws < 200) return 1;
+  return Math.max(1, Math.min(8, globalThis.navigator?.hardwareConcurrency ?? 1));
+}
+
+/** The draws in this worker, in chunks of about 40 ms with a checkpoint (and cancel) between. */
+async function drawsHere(spec: MonteCarloSpec, firstChunk: number, ctx: HandlerContext): Promise<{ result: ReturnType<typeof mergeDrawBlocks>; chunks: number }> {
+  const p = prepareMonteCarlo(spec);
+  const draws = p.draws;
+  const blocks: DrawBlock[] = [];
+  let chunk = Math.max(1, Math.min(firstChunk, draws));
+  let at = 0;
+  let chunks = 0;
+  while (at < draws) {
+    const end = Math.min(draws, at + chunk);
+    const t0 = performance.now();
+    blocks.push(runDraws(p, at, end));
+    const dt = Math.max(0.5, performance.now() - t0);
+    chunks++;
+    at = end;
+    // Aim at about 40 ms per chunk, growing at most fourfold at a time.
+    chunk = Math.max(1, Math.min(4 * chunk, Math.round((chunk * 40) / dt)));
+    ctx.progress(at / draws, `${at} of ${draws} draws`);
+    await ctx.checkpoint();
+  }
+  return { result: mergeDrawBlocks(p, blocks), chunks };
+}
 
 export const sensitivityOps: Record<string, Handler> = {
   /** The tornado and the most influential coefficients for a multiplier or a scenario's total. */
@@ -263,8 +310,10 @@ export const sensitivityOps: Record<string, Handler> = {
   },
 
   /**
-   * Monte Carlo on the coefficients: draws run in chunks of about 40 ms with progress after each
-   * and a checkpoint between chunks, where a cancel stops the run. Percentiles 5, 50 and 95 of the
+   * Monte Carlo on the coefficients: draws run here in chunks of about 40 ms with progress after
+   * each and a checkpoint between chunks, where a cancel stops the run; or, with more than one
+   * worker, in Web Workers started for the run (src/parallel/montecarlo-web.ts), terminated on a
+   * cancel. Percentiles 5, 50 and 95 of the
    * chosen measure's multipliers by sector and of each scenario's impacts.
    */
   'monte-carlo': async (args: MonteCarloArgs & { household?: unknown }, ctx): Promise<MonteCarloView> => {
@@ -291,25 +340,25 @@ export const sensitivityOps: Record<string, Handler> = {
       measures: [{ code: m.code, label: m.label, unit, c: m.coefficients }],
       scenarios: scen.map((s, k) => ({ code: `s${k}`, label: s.name, d: s.demand })),
     };
-    const p = prepareMonteCarlo(spec);
-    const blocks: DrawBlock[] = [];
-    let chunk = Math.max(1, Math.min(args.chunk ?? 1, draws));
-    let at = 0;
-    let chunks = 0;
+    const workers = workersFor(args.workers, draws);
     ctx.progress(0, `0 of ${draws} draws`);
-    while (at < draws) {
-      const end = Math.min(draws, at + chunk);
-      const t0 = performance.now();
-      blocks.push(runDraws(p, at, end));
-      const dt = Math.max(0.5, performance.now() - t0);
-      chunks++;
-      at = end;
-      // Aim at about 40 ms per chunk, growing at most fourfold at a time.
-      chunk = Math.max(1, Math.min(4 * chunk, Math.round((chunk * 40) / dt)));
-      ctx.progress(at / draws, `${at} of ${draws} draws`);
-      await ctx.checkpoint();
+    let r: ReturnType<typeof mergeDrawBlocks>;
+    let chunks: number;
+    if (workers === 1) {
+      ({ result: r, chunks } = await drawsHere(spec, args.chunk ?? 1, ctx));
+    } else {
+      // The engine worker hands the draws to workers of its own and waits; a cancel from the
+      // page arrives meanwhile and ends them at their next message.
+      const signal = { get aborted() { return ctx.cancelled; } };
+      r = await monteCarloInWebWorkers(spec, {
+        workers,
+        signal,
+        onProgress: (done, total) => {
+          ctx.progress(done / total, `${done} of ${total} draws on ${workers} workers`);
+        },
+      });
+      chunks = taskRanges(draws, workers).length;
     }
-    const r = mergeDrawBlocks(p, blocks);
     let focus: MonteCarloView['focus'] = null;
     const f = args.focus;
     if (f?.scenario !== undefined) {
@@ -339,6 +388,7 @@ export const sensitivityOps: Record<string, Handler> = {
       findings: r.findings,
       cautions: r.cautions,
       chunks,
+      workers,
     };
     transferArrays(ctx, out);
     return out;
