@@ -25,7 +25,7 @@ import type { Matrix } from '../../engine/linalg/matrix';
 import type { Axis, Satellite, Table, TableMeta } from '../../engine/table';
 import { validateTable } from '../../engine/table';
 import { type Block, DenseBlock, type Entry } from './block';
-import { TEXT } from './grid';
+import { normalizeCode, TEXT } from './grid';
 import {
   COLUMN_ROLES,
   type ColumnRole,
@@ -40,7 +40,7 @@ import {
   type TotalCheck,
 } from './mapping';
 import { numberHint } from './numbers';
-import { type CompiledPatterns, compilePatterns, type LayoutPatterns, resolvePatterns } from './patterns';
+import { type CompiledPatterns, compilePatterns, type LayoutPatterns, PATTERN_KEYS, resolvePatterns } from './patterns';
 
 export interface AssembleOptions {
   kind: TableKind;
@@ -104,13 +104,22 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     }
     return e.role as R;
   };
+  // Where a line has no code of its own (its 'code' is its label), code patterns apply only when no
+  // label pattern says what it is: 'Transport and storage' must not pass for a total (T*), nor
+  // 'Taxes on products' be judged by its first letter.
+  const labelSets = PATTERN_KEYS.map((k) => P[k]);
+  const codeOf = (e: Entry, m: CompiledPatterns[keyof CompiledPatterns]): string | undefined => {
+    const own = e.code !== e.label && e.code !== normalizeCode(e.label);
+    if (!own && (/\s/.test(e.code) || labelSets.some((q) => q.label(e.label)))) return undefined;
+    return m.code(e.code);
+  };
   const colRole = (e: Entry): RoleWhy<ColumnRole> => {
     const o = overrideFor<ColumnRole>(colO, e);
     if (o?.role) return { role: o.role, why: 'mapping' };
     const sr = sheetRole(e, COLUMN_ROLES, 'column');
     if (sr) return { role: sr, why: 'role written in the sheet' };
     let m: string | undefined;
-    if ((m = P.ignore.code(e.code)) || (m = P.ignore.label(e.label))) return { role: 'ignore', why: `ignore pattern ${m}` };
+    if ((m = codeOf(e, P.ignore)) || (m = P.ignore.label(e.label))) return { role: 'ignore', why: `ignore pattern ${m}` };
     if ((m = P.output.label(e.label))) return { role: 'output', why: `label matches ${m}` };
     if ((m = P.totals.label(e.label))) {
       const r: RoleWhy<ColumnRole> = { role: 'total', why: `label matches ${m}` };
@@ -119,17 +128,17 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     }
     if (rowCodes.has(e.code)) {
       // A code that names a row too is a sector, unless it looks like a total and the data say it is one.
-      if ((m = P.totals.code(e.code))) return { role: 'total', why: `code matches ${m}`, alt: 'sector' };
+      if ((m = codeOf(e, P.totals))) return { role: 'total', why: `code matches ${m}`, alt: 'sector' };
       return { role: 'sector', why: 'its code names a row too' };
     }
-    if ((m = P.totals.code(e.code))) {
+    if ((m = codeOf(e, P.totals))) {
       const r: RoleWhy<ColumnRole> = { role: 'total', why: `code matches ${m}` };
       if (!plain && P.finalDemand.label(stripTotal(e.label))) r.alt = 'final-demand';
       return r;
     }
-    if ((m = P.output.code(e.code))) return { role: 'output', why: `code matches ${m}` };
+    if ((m = codeOf(e, P.output))) return { role: 'output', why: `code matches ${m}` };
     if (plain) return { role: 'sector', why: kind === 'make' ? 'a commodity column' : 'a matrix column' };
-    if ((m = P.finalDemand.code(e.code))) return { role: 'final-demand', why: `code matches ${m}` };
+    if ((m = codeOf(e, P.finalDemand))) return { role: 'final-demand', why: `code matches ${m}` };
     if ((m = P.finalDemand.label(e.label))) return { role: 'final-demand', why: `label matches ${m}` };
     return { role: undefined, why: '' };
   };
@@ -140,7 +149,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     const sr = sheetRole(e, ROW_ROLES, 'row');
     if (sr) return { role: sr, why: 'role written in the sheet' };
     let m: string | undefined;
-    if ((m = P.ignore.code(e.code)) || (m = P.ignore.label(e.label))) return { role: 'ignore', why: `ignore pattern ${m}` };
+    if ((m = codeOf(e, P.ignore)) || (m = P.ignore.label(e.label))) return { role: 'ignore', why: `ignore pattern ${m}` };
     if ((m = P.output.label(e.label))) return { role: 'output', why: `label matches ${m}` };
     const altOf = (label: string): RowRole | undefined => {
       if (plain) return undefined;
@@ -156,20 +165,20 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       return r;
     }
     if (colCodes.has(e.code)) {
-      if ((m = P.totals.code(e.code))) return { role: 'total', why: `code matches ${m}`, alt: 'sector' };
+      if ((m = codeOf(e, P.totals))) return { role: 'total', why: `code matches ${m}`, alt: 'sector' };
       return { role: 'sector', why: 'its code names a column too' };
     }
-    if ((m = P.totals.code(e.code))) {
+    if ((m = codeOf(e, P.totals))) {
       const r: RoleWhy<RowRole> = { role: 'total', why: `code matches ${m}` };
       const alt = altOf(e.label);
       if (alt) r.alt = alt;
       return r;
     }
-    if ((m = P.output.code(e.code))) return { role: 'output', why: `code matches ${m}` };
+    if ((m = codeOf(e, P.output))) return { role: 'output', why: `code matches ${m}` };
     if (plain) return { role: 'sector', why: kind === 'make' ? 'an industry row' : 'a matrix row' };
-    if ((m = P.valueAdded.code(e.code))) return { role: 'value-added', why: `code matches ${m}` };
-    if ((m = P.imports.code(e.code))) return { role: 'imports', why: `code matches ${m}` };
-    if ((m = P.satellite.code(e.code))) return { role: 'satellite', why: `code matches ${m}` };
+    if ((m = codeOf(e, P.valueAdded))) return { role: 'value-added', why: `code matches ${m}` };
+    if ((m = codeOf(e, P.imports))) return { role: 'imports', why: `code matches ${m}` };
+    if ((m = codeOf(e, P.satellite))) return { role: 'satellite', why: `code matches ${m}` };
     if ((m = P.imports.label(e.label))) return { role: 'imports', why: `label matches ${m}` };
     if ((m = P.valueAdded.label(e.label))) return { role: 'value-added', why: `label matches ${m}` };
     if ((m = P.satellite.label(e.label))) return { role: 'satellite', why: `label matches ${m}` };
@@ -238,6 +247,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
   const colRoles = cr.map((x) => x.role!) as ColumnRole[];
   const rowWhy = rr.map((x) => x.why);
   const colWhy = cr.map((x) => x.why);
+  if (!plain) findSubtotals(block, rowRoles, colRoles, rowWhy, colWhy, rr, cr);
 
   let totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   // Demote unexplained totals whose label (or code) says what else they are; then promote the sum
@@ -276,8 +286,46 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     }
     return changed;
   };
+  // Totals known by their code alone (`T*` also matches codes such as TXS for taxes) that are the
+  // sum of nothing, between the first sector line and the output line, are tried as data: value
+  // added (rows) or final demand (columns). The change is kept only when it makes the output line
+  // the sum it should be; otherwise they stay unexplained totals, reported as such.
+  const positional = (): boolean => {
+    if (!symmetric && kind !== 'use') return false;
+    let changed = false;
+    for (const axis of ['row', 'column'] as const) {
+      const roles: string[] = axis === 'row' ? rowRoles : colRoles;
+      const entries = axis === 'row' ? block.rows : block.cols;
+      const why = axis === 'row' ? rr : cr;
+      const outAt = roles.indexOf('output');
+      const firstSector = roles.indexOf('sector');
+      if (outAt < 0 || firstSector < 0) continue;
+      const score = (list: TotalCheck[]) => {
+        const t = list.find((c) => c.axis === axis && c.code === entries[outAt]!.code);
+        return t && t.sumOf && t.checked ? t.matched / t.checked : 0;
+      };
+      const before = score(totals);
+      if (before === 1) continue;
+      const tried = totals
+        .filter((t) => t.axis === axis && !t.sumOf && t.role === 'total')
+        .map((t) => entries.findIndex((e) => e.code === t.code))
+        .filter((i) => i > firstSector && i < outAt && roles[i] === 'total' && !why[i]!.alt && !fixed(why[i]!) && why[i]!.why.startsWith('code matches'));
+      if (!tried.length) continue;
+      const as = axis === 'row' ? 'value-added' : 'final-demand';
+      for (const i of tried) roles[i] = as;
+      const again = checkTotals(block, rowRoles, colRoles, kind, findings, false);
+      const after = score(again);
+      if (after >= 0.5 && after > before + 1e-9) {
+        for (const i of tried) (axis === 'row' ? rowWhy : colWhy)[i] = `${why[i]!.why}, but it is the sum of nothing and ${entries[outAt]!.code} adds up only with it, so it is read as ${as === 'value-added' ? 'value added' : 'final demand'}`;
+        totals = again;
+        changed = true;
+      } else for (const i of tried) roles[i] = 'total';
+    }
+    return changed;
+  };
   if (demote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   if (promote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
+  if (positional() && promote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   checkTotals(block, rowRoles, colRoles, kind, findings, true, totals);
 
   const units = block.rows.map((e, i) => {
@@ -299,6 +347,76 @@ export function classify(block: Block, options: AssembleOptions): Classified {
   return { rowRoles, colRoles, rowWhy, colWhy, units, totals, findings };
 }
 
+/**
+ * Subtotals that do not say so: a value-added (or imports) row that is the sum of the two or
+ * more such rows right before it, or right after it ('Gross value added' under its parts), and a
+ * final-demand column that is the sum of the final-demand columns next to it ('Final
+ * consumption' beside households, non-profit institutions and government). Such a line is read
+ * as a total (and checked as one), not as data that would count its parts twice. A line is a
+ * subtotal only when it matches in every sector line (within the rounding of the data) and is
+ * not zero in most of them; roles from a mapping or the sheet are kept.
+ */
+function findSubtotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], rowWhy: string[], colWhy: string[], rr: RoleWhy<RowRole>[], cr: RoleWhy<ColumnRole>[]): void {
+  const fixed = (x: RoleWhy<string>) => x.why === 'mapping' || x.why === 'role written in the sheet';
+  const unit = block.decimals === undefined ? 0 : 10 ** -block.decimals;
+  const tol = (found: number, sum: number, parts: number) => unit * Math.min(0.5 * (parts + 1), 6 * Math.sqrt(parts / 12) + 0.5) + 1e-9 * Math.max(Math.abs(found), Math.abs(sum), 1);
+  const sectorCols = colRoles.map((r, j) => (r === 'sector' ? block.cols[j]!.pos : -1)).filter((p) => p >= 0);
+  const sectorRows = rowRoles.map((r, i) => (r === 'sector' ? i : -1)).filter((i) => i >= 0);
+  if (!sectorCols.length || !sectorRows.length) return;
+  /** Whether line t equals the sum of lines `parts` at every position (values read by `at`). */
+  const sums = (at: (line: number, k: number) => number, t: number, parts: number[], count: number): boolean => {
+    let nonzero = 0;
+    for (let k = 0; k < count; k++) {
+      let sum = 0;
+      for (const p of parts) {
+        const v = at(p, k);
+        if (v === v) sum += v;
+      }
+      let found = at(t, k);
+      if (found !== found) found = 0;
+      if (Math.abs(found - sum) > tol(found, sum, parts.length)) return false;
+      if (found !== 0) nonzero++;
+    }
+    return nonzero * 2 > count;
+  };
+  // Rows: values across the sector columns.
+  const rowVals = new Map<number, Float64Array>();
+  const rowAt = (i: number, k: number) => {
+    let v = rowVals.get(i);
+    if (!v) rowVals.set(i, (v = block.values(i)));
+    return v[sectorCols[k]!]!;
+  };
+  const primary = ['value-added', 'imports'];
+  rowRoles.forEach((r, t) => {
+    if (!primary.includes(r) || fixed(rr[t]!)) return;
+    for (const parts of adjacentRuns(rowRoles, t, primary)) {
+      if (sums(rowAt, t, parts, sectorCols.length)) {
+        rowRoles[t] = 'total';
+        const [a, b] = [block.rows[Math.min(...parts)]!.code, block.rows[Math.max(...parts)]!.code];
+        rowWhy[t] = `${rowWhy[t]}, but it is the sum of rows ${a}..${b} in every sector column, so it is read as a subtotal`;
+        return;
+      }
+    }
+  });
+  // Columns: values down the sector rows.
+  const colAt = (j: number, k: number) => {
+    let v = rowVals.get(sectorRows[k]!);
+    if (!v) rowVals.set(sectorRows[k]!, (v = block.values(sectorRows[k]!)));
+    return v[block.cols[j]!.pos]!;
+  };
+  colRoles.forEach((r, t) => {
+    if (r !== 'final-demand' || fixed(cr[t]!)) return;
+    for (const parts of adjacentRuns(colRoles, t, ['final-demand'])) {
+      if (sums(colAt, t, parts, sectorRows.length)) {
+        colRoles[t] = 'total';
+        const [a, b] = [block.cols[Math.min(...parts)]!.code, block.cols[Math.max(...parts)]!.code];
+        colWhy[t] = `${colWhy[t]}, but it is the sum of columns ${a}..${b} in every sector row, so it is read as a subtotal`;
+        return;
+      }
+    }
+  });
+}
+
 const ALL_NAME = { row: 'all sector, value-added and imports rows', column: 'all sector and final-demand columns' } as const;
 
 interface Candidate {
@@ -307,6 +425,25 @@ interface Candidate {
   block?: 'sector' | 'other' | 'imports' | 'primary' | 'all';
   from?: number;
   to?: number;
+  /** Rows (block indices) summed one by one: a run of value-added rows next to a total row. */
+  rows?: number[];
+}
+
+/**
+ * The runs of two or more lines of the given roles right before and right after line t, nearest
+ * first, as lists of indices (every length from 2 up): the parts a subtotal such as 'Gross value
+ * added' or 'Final consumption expenditure' may add up.
+ */
+function adjacentRuns(roles: readonly string[], t: number, kinds: readonly string[]): number[][] {
+  const out: number[][] = [];
+  for (const dir of [-1, 1]) {
+    const run: number[] = [];
+    for (let u = t + dir; u >= 0 && u < roles.length && kinds.includes(roles[u]!); u += dir) {
+      run.push(u);
+      if (run.length >= 2) out.push([...run]);
+    }
+  }
+  return out;
 }
 
 interface Stat {
@@ -359,6 +496,15 @@ function checkTotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], 
         }
       }
       const cands = tIdx.map((t, q) => candidatesFor(t, q, tIdx, before, parts.length, block.cols, 'column', kind));
+      if (kind !== 'matrix' && kind !== 'make') {
+        tIdx.forEach((t, q) => {
+          for (const run of adjacentRuns(colRoles, t, ['final-demand'])) {
+            const lo = Math.min(...run);
+            const hi = Math.max(...run);
+            cands[q]!.push({ name: `${block.cols[lo]!.code}..${block.cols[hi]!.code}`, from: before[lo]!, to: before[hi]! + 1 });
+          }
+        });
+      }
       const stats = cands.map((cs) => cs.map(newStat));
       const lines = rowRoles.map((r, i) => (r === 'sector' || r === 'value-added' || r === 'imports' ? i : -1)).filter((i) => i >= 0);
       const P = new Float64Array(parts.length + 1);
@@ -439,6 +585,29 @@ function checkTotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], 
         }
       }
       const cands = tIdx.map((t, q) => candidatesFor(t, q, tIdx, before, partCount, block.rows, 'row', kind));
+      if (kind !== 'matrix' && kind !== 'make') {
+        tIdx.forEach((t, q) => {
+          for (const run of adjacentRuns(rowRoles, t, ['value-added', 'imports'])) {
+            const lo = Math.min(...run);
+            const hi = Math.max(...run);
+            cands[q]!.push({ name: `${block.rows[lo]!.code}..${block.rows[hi]!.code}`, rows: run });
+          }
+        });
+      }
+      const runSums = (rows: number[]) => {
+        const a = zero();
+        for (const i of rows) {
+          const v = block.values(i);
+          for (let k = 0; k < L; k++) {
+            const x = v[pos[k]!]!;
+            if (x === x && x !== 0) {
+              a.s[k] += x;
+              a.n[k]++;
+            }
+          }
+        }
+        return a;
+      };
       const snapAt = (q: number) => (q < 0 ? zero() : q >= snaps.length ? cum : snaps[q]!);
       tIdx.forEach((t, q) => {
         const v = block.values(t);
@@ -452,6 +621,7 @@ function checkTotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], 
           else if (c.block === 'primary') {
             a = { s: va.s.map((x, k) => x + imp.s[k]!), n: va.n.map((x, k) => x + imp.n[k]!) };
           } else if (c.block === 'all') a = cum;
+          else if (c.rows) a = runSums(c.rows);
           else {
             // Ranges are between snapshots: from = index of the total that opens the run (-1 for the start).
             a = snapAt(c.to!);
