@@ -56,8 +56,14 @@ export function errorReport(e: unknown): ErrorReport {
   if (e instanceof InputError) {
     const where = describeWhere(e.where);
     // The readers name their options as a program calls them; say how the command line spells them.
-    const message = e.message.replace(/read it with blanks: 'zero'/, 'give --blanks zero').replace(/\bGive valueField \(1-based\)/, 'Give the value field, counted from 1 (--make-value-column or --use-value-column)');
+    let message = e.message.replace(/read it with blanks: 'zero'/, 'give --blanks zero').replace(/\bGive valueField \(1-based\)/, 'Give the value field, counted from 1 (--make-value-column or --use-value-column)');
+    let hint: string | undefined;
+    if (e.hint && /^Choose the decimal mark/.test(e.hint)) {
+      hint = 'Choose the decimal mark: --decimal . or --decimal ,';
+      message = message.replace(`. ${e.hint}`, '');
+    }
     const r: ErrorReport = { code: e.code, message: where && !message.includes(where) && !e.where.file ? `${message} (${where})` : message, exitCode: EXIT_USAGE };
+    if (hint) r.hint = hint;
     if (Object.keys(e.where).length) r.where = { ...e.where };
     return r;
   }

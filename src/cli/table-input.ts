@@ -27,6 +27,28 @@ export interface TableFlags {
   shape?: string;
   blanks?: string;
   tableKind?: string;
+  decimal?: string;
+  thousands?: string;
+}
+
+/** --decimal and --thousands, checked, as the readers take them. */
+export function numberOptions(flags: { decimal?: string; thousands?: string }): { decimal?: '.' | ','; thousands?: string } {
+  const out: { decimal?: '.' | ','; thousands?: string } = {};
+  if (flags.decimal !== undefined) {
+    const d = flags.decimal.trim().toLowerCase();
+    const mark = d === '.' || d === 'point' || d === 'dot' ? '.' : d === ',' || d === 'comma' ? ',' : undefined;
+    if (!mark) throw new UsageError(`--decimal must be '.' or ','; got '${flags.decimal}'`, 'bad-decimal');
+    out.decimal = mark;
+  }
+  if (flags.thousands !== undefined) {
+    const t = flags.thousands;
+    const sep = t === 'none' || t === '' ? '' : t === 'space' ? ' ' : t;
+    if (sep.length > 1) throw new UsageError(`--thousands must be one character, 'space' or 'none'; got '${t}'`, 'bad-thousands');
+    if (sep !== '' && /[0-9\-+eE]/.test(sep)) throw new UsageError(`--thousands cannot be '${t}'`, 'bad-thousands');
+    if (out.decimal && sep === out.decimal) throw new UsageError(`--decimal and --thousands are both '${sep}'`, 'bad-thousands');
+    out.thousands = sep;
+  }
+  return out;
 }
 
 /** --blanks error|zero, checked. */
@@ -101,8 +123,10 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     }
   }
   const sheet = sheetOption(flags.sheet);
+  const numbers = numberOptions(flags);
   const r = await readTableFile(file.bytes, {
     file: ioName(file, format),
+    ...numbers,
     ...(sheet !== undefined ? { sheet } : {}),
     ...(format === 'tsv' ? { delimiter: '\t' as const } : {}),
     ...(mapping ? { mapping } : {}),

@@ -58,13 +58,19 @@ export interface LongTable {
   mapping: Pick<LayoutMapping, 'shape' | 'file' | 'rowCodeField' | 'columnCodeField' | 'valueField' | 'headerLine' | 'transposed' | 'blanks' | 'zeroTexts'> & { conventions?: Record<string, unknown> };
   conventions: NumberConventions & { delimiter?: Delimiter; encoding?: Encoding };
   findings: Finding[];
+  /**
+   * How the orientation was decided: given (an option or the mapping), named by the header, or
+   * only the order of the fields (then the table readers may read it the other way round when
+   * the codes say so: final-demand codes among the rows and value-added codes among the columns).
+   */
+  orientation: 'given' | 'named' | 'order';
 }
 
 const SAMPLE_LINES = 2000;
 const CHUNK = 1 << 20;
 
-const ROW_NAMES = /^(row|rows|from|origin|source|supplier|seller|producer|industry code|commodity code|i)([\s_-]*(code|id|key))?$/i;
-const COL_NAMES = /^(col|column|columns|to|destination|target|user|buyer|purchaser|j)([\s_-]*(code|id|key))?$/i;
+const ROW_NAMES = /^(row|rows|from|origin|source|supplier|seller|producer|industry code|commodity code|i|prod|prod_na|products?|commodity|commodities|supplying[\s_-]+(industry|sector))([\s_-]*(code|id|key))?$/i;
+const COL_NAMES = /^(col|column|columns|to|destination|target|user|buyer|purchaser|j|induse|ind_use|uses?|using[\s_-]+(industry|sector)|purchasing[\s_-]+(industry|sector))([\s_-]*(code|id|key))?$/i;
 const VALUE_NAMES = /^(value|values|amount|flow|flows|obs_value|coefficient|coefficients|val)([\s_-]*\w+)?$/i;
 
 /** Codes to indices, looked up from bytes without making a string per line. */
@@ -260,6 +266,8 @@ interface FieldChoice {
   value: number;
   header: boolean;
   transposed: boolean;
+  /** How the orientation was decided: given (an option or the mapping), named by the header, or the order of the fields. */
+  orientation: 'given' | 'named' | 'order';
   rowLabel?: number;
   colLabel?: number;
   why: string[];
@@ -277,6 +285,7 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
   let col = want(options.columnCodeField ?? m.columnCodeField, 'columnCodeField');
   let value = want(options.valueField ?? m.valueField, 'valueField');
   let transposed = options.transposed ?? m.transposed ?? false;
+  let orientation: FieldChoice['orientation'] = options.transposed !== undefined || m.transposed !== undefined || (row !== undefined && col !== undefined) ? 'given' : 'order';
   const lines = sample.filter((f) => f.some((x) => x.trim() !== ''));
   if (!lines.length) throw new InputError('empty-file', `file ${file} has no lines`, { file }, 'Give a file with a table in it');
   const nf = Math.max(...lines.map((f) => f.length));
@@ -305,6 +314,7 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
       row = r;
       col = c;
       if (c < r && options.transposed === undefined && m.transposed === undefined) transposed = false; // fields named: take them as named
+      if (orientation === 'order') orientation = 'named';
       why.push(`the header names field ${r + 1} '${names[r]}' the row and field ${c + 1} '${names[c]}' the column`);
     }
     if (value === undefined && v >= 0) {
@@ -385,7 +395,7 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
     [row, col] = [col, row];
     why.push('transposed: the first code field is the column');
   }
-  const choice: FieldChoice = { row, col, value, header, transposed, why };
+  const choice: FieldChoice = { row, col, value, header, transposed, orientation, why };
   const rl = row + 1;
   if (rl < nf && rl !== col && rl !== value && prof[rl]!.labelLike) choice.rowLabel = rl;
   const cl = col + 1;
@@ -683,6 +693,7 @@ class LongReader {
       mapping,
       conventions,
       findings,
+      orientation: ch.orientation,
     };
   }
 

@@ -115,7 +115,7 @@ export async function readTableFile(bytes: Uint8Array, options: ReadFileOptions)
   const g = await readGrid(bytes, options);
   const shape = options.shape ?? options.mapping?.shape ?? guessShape(g.grid);
   if (shape === 'long') {
-    const lo: Omit<LongOptions, 'file'> = { ...(options.long ?? {}) };
+    const lo: Omit<LongOptions, 'file'> = { ...(options.decimal ? { decimal: options.decimal } : {}), ...(options.thousands !== undefined ? { thousands: options.thousands } : {}), ...(options.long ?? {}) };
     if (options.mapping) lo.mapping = options.mapping;
     const long = readLongGrid(g.grid, lo);
     const r = readTable(long, options);

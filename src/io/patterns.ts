@@ -4,8 +4,12 @@
  * characters, `?` one), case-insensitively; labels by regular expressions (sources, as text, so
  * that a mapping file can carry them), case-insensitively.
  *
- * The defaults are plain words of the trade and the common one-letter code prefixes; they are
- * options, never one agency's codes. A code that names both a row and a column of the table is a
+ * The defaults are plain words of the trade, the common one-letter code prefixes and the
+ * transaction codes of the System of National Accounts (2008 SNA, used by ESA 2010 too): P3
+ * final consumption, P5 capital formation, P6 exports, P7 imports, D1 compensation of employees,
+ * D2/D3 taxes and subsidies, B2/B3 operating surplus and mixed income, B1 value added (a
+ * subtotal), P1 output, P2 intermediate consumption (a total). They are options, never one
+ * agency's codes. A code that names both a row and a column of the table is a
  * sector whatever pattern it matches (so that a sector coded `F`, construction in some
  * classifications, stays a sector).
  */
@@ -30,7 +34,7 @@ export interface LayoutPatterns {
 
 export const DEFAULT_PATTERNS: LayoutPatterns = {
   finalDemand: {
-    codes: ['F*'],
+    codes: ['F*', 'P3*', 'P5*', 'P6*'],
     labels: [
       '^(total\\s+)?final\\s+(demand|uses?|consumption)\\b',
       '^(private\\s+|household\\s+|households\\W+\\s*|personal\\s+|government\\s+|final\\s+)?consumption\\b',
@@ -51,7 +55,7 @@ export const DEFAULT_PATTERNS: LayoutPatterns = {
     ],
   },
   valueAdded: {
-    codes: ['V*'],
+    codes: ['V*', 'D1', 'D1?', 'D2*', 'D3*', 'D29*', 'B2*', 'B3*', 'K1', 'P51C*'],
     labels: [
       '^(gross\\s+|net\\s+)?value\\s+added\\b',
       '^compensation\\b',
@@ -73,15 +77,15 @@ export const DEFAULT_PATTERNS: LayoutPatterns = {
     ],
   },
   imports: {
-    codes: ['IMP', 'IMP*'],
+    codes: ['IMP', 'IMP*', 'P7*'],
     labels: ['^(total\\s+)?(intermediate\\s+)?imports?\\b', '^imported (inputs|goods)', '^competitive imports'],
   },
   totals: {
-    codes: ['T*'],
+    codes: ['T*', 'B1*', 'P2'],
     labels: ['^(grand\\s+|sub-?)?totals?\\b', '\\btotals?$', '^sum\\b'],
   },
   output: {
-    codes: ['x', 'output'],
+    codes: ['x', 'output', 'P1'],
     labels: ['^(total\\s+)?(gross\\s+)?(industry\\s+|commodity\\s+|product\\s+|domestic\\s+)?output(\\s+at\\s+[a-z\'’]+\\s+prices)?\\s*$', '^x$'],
   },
   satellite: {

@@ -7,11 +7,12 @@ import type { Finding } from '../../engine/findings';
 import type { Matrix } from '../../engine/linalg/matrix';
 import type { Axis, Table } from '../../engine/table';
 import { type AssembleOptions, assembleMatrix, assembleTable, classify, mappingOf } from './assemble';
-import type { Block } from './block';
+import { type Block, DenseBlock, type Entry } from './block';
 import { Grid } from './grid';
 import { detectStructure, type WideStructure } from './layout';
 import type { LongTable } from './long';
 import type { LayoutMapping, MappingInput, TableKind } from './mapping';
+import { compilePatterns, resolvePatterns } from './patterns';
 
 /** What a table reader reads: a grid (a wide sheet, from CSV or XLSX) or a long file already read. */
 export type TableSource = Grid | LongTable;
@@ -87,6 +88,47 @@ export function sourceBlock(source: TableSource, mapping?: MappingInput): Source
   return { block: source.block, meta: {}, extra: { ...fields, conventions: conventions ?? {} }, findings: [...source.findings] };
 }
 
+/**
+ * A long file whose orientation only the order of its fields decided, read the other way round
+ * when its codes say so: more codes that look like final demand among the rows and like value
+ * added among the columns than the other way (codes naming both a row and a column are sectors
+ * and do not count). The note says why; the mapping records the orientation used.
+ */
+function orient(sb: SourceBlock, source: TableSource, options: ReadTableOptions): SourceBlock {
+  if (source instanceof Grid || source.orientation !== 'order') return sb;
+  const P = compilePatterns(resolvePatterns(options.patterns ?? options.mapping?.patterns));
+  const b = sb.block;
+  const rowCodes = new Set(b.rows.map((e) => e.code));
+  const colCodes = new Set(b.cols.map((e) => e.code));
+  const is = (e: Entry, m: typeof P.finalDemand) => !!(m.code(e.code) || (e.label !== e.code && m.label(e.label)));
+  const primary = (e: Entry) => is(e, P.valueAdded) || is(e, P.imports);
+  const rowsOnly = b.rows.filter((e) => !colCodes.has(e.code));
+  const colsOnly = b.cols.filter((e) => !rowCodes.has(e.code));
+  const right = rowsOnly.filter(primary).length + colsOnly.filter((e) => is(e, P.finalDemand)).length;
+  const fdRows = rowsOnly.filter((e) => is(e, P.finalDemand));
+  const vaCols = colsOnly.filter(primary);
+  const wrong = fdRows.length + vaCols.length;
+  if (wrong <= right) return sb;
+  const nr = b.rows.length;
+  const nc = b.cols.length;
+  const d = (b as DenseBlock).data;
+  const t = new Float64Array(nr * nc);
+  for (let i = 0; i < nr; i++) for (let j = 0; j < nc; j++) t[j * nr + i] = d[i * nc + j]!;
+  const copy = (e: Entry): Entry => ({ ...e });
+  const block = new DenseBlock(b.file, b.cols.map(copy), b.rows.map(copy), t, b.sheet);
+  // The mapping names the code fields in the file's order and says whether they are swapped.
+  const extra = { ...sb.extra, transposed: !sb.extra.transposed };
+  const sample = (es: Entry[]) => es.slice(0, 3).map((e) => `'${e.code}'`).join(', ');
+  const why = [fdRows.length ? `${fdRows.length} row code${fdRows.length > 1 ? 's' : ''} look like final demand (${sample(fdRows)})` : '', vaCols.length ? `${vaCols.length} column code${vaCols.length > 1 ? 's' : ''} look like value added (${sample(vaCols)})` : ''].filter(Boolean).join(' and ');
+  const note: Finding = {
+    code: 'long-transposed',
+    severity: 'note',
+    message: `file ${b.file}: the second field of codes is read as the rows and the first as the columns, because ${why}; set "transposed" in a mapping (the command line: --mapping FILE) to choose`,
+    where: { file: b.file },
+  };
+  return { ...sb, block, extra, findings: [...sb.findings, note] };
+}
+
 function optionsOf(kind: TableKind, options: ReadTableOptions): AssembleOptions {
   const o: AssembleOptions = { kind };
   if (options.mapping) o.mapping = options.mapping;
@@ -113,7 +155,7 @@ function kindOf(options: ReadTableOptions): 'flows' | 'coefficients' {
  */
 export function readTable(source: TableSource, options: ReadTableOptions = {}): TableRead {
   const kind = kindOf(options);
-  const sb = sourceBlock(source, options.mapping);
+  const sb = orient(sourceBlock(source, options.mapping), source, options);
   const r = assembleTable(sb.block, optionsOf(kind, options), sb.meta, sb.extra);
   if (options.kind === undefined && options.mapping?.kind === undefined) {
     const why = looksLikeCoefficients(r);
@@ -174,7 +216,7 @@ export function readMatrix(source: TableSource, options: Omit<ReadTableOptions, 
  */
 export function detectLayout(source: TableSource, options: ReadTableOptions & { kind?: TableKind } = {}): { mapping: LayoutMapping; findings: Finding[] } {
   const kind = options.kind ?? options.mapping?.kind ?? 'flows';
-  const sb = sourceBlock(source, options.mapping);
+  const sb = kind === 'flows' || kind === 'coefficients' ? orient(sourceBlock(source, options.mapping), source, options) : sourceBlock(source, options.mapping);
   const o = optionsOf(kind, options);
   const c = classify(sb.block, o);
   const mapping = mappingOf(sb.block, c, kind, o, { ...sb.extra, meta: { ...sb.meta, ...(options.mapping?.meta ?? {}) } });

@@ -1,0 +1,124 @@
+/**
+ * Long files in either orientation, with the transaction codes of the System of National
+ * Accounts (2008 SNA; ESA 2010 uses the same codes: P3 final consumption, P51G gross fixed
+ * capital formation, P6 exports, D1 compensation of employees, B2A3G operating surplus and mixed
+ * income, D29X39 other taxes less subsidies on production, B1G value added, P1 output): the
+ * codes are an open standard, the numbers invented. A file that lists the using industry first
+ * and the product second, with no header to say so, is read the right way round because its
+ * codes say so, and the note says why; a header that names the fields (prod_na, induse, as in
+ * SDMX-CSV downloads) decides; a mapping that says "transposed" decides over both. The decimal
+ * mark of a file whose every number is ambiguous is chosen on the command line.
+ */
+import { describe, expect, it } from 'vitest';
+import { readLongCsv } from '../../src/io/long';
+import { readTable } from '../../src/io/tables';
+import { run, tempDir } from '../cli/harness';
+import { writeFileSync } from 'node:fs';
+import { join } from 'node:path';
+
+const S = ['CPA_A01', 'CPA_C10', 'CPA_F'];
+const FD = ['P3_S14', 'P3_S13', 'P51G', 'P6'];
+const VA = ['D1', 'B2A3G', 'D29X39'];
+const Z = [
+  [10, 20, 5],
+  [15, 40, 25],
+  [5, 30, 50],
+];
+const F = [
+  [40, 5, 5, 15],
+  [60, 10, 10, 40],
+  [70, 20, 10, 15],
+];
+const V = [
+  [40, 60, 65],
+  [25, 48, 51],
+  [5, 2, 4],
+];
+const X = [100, 200, 200];
+
+/** Lines of (using column, product row, value), in the order a download might list them. */
+function triplets(): [string, string, number][] {
+  const out: [string, string, number][] = [];
+  S.forEach((p, i) => {
+    S.forEach((u, j) => out.push([u, p, Z[i]![j]!]));
+    FD.forEach((u, k) => out.push([u, p, F[i]![k]!]));
+  });
+  VA.forEach((v, a) => S.forEach((u, j) => out.push([u, v, V[a]![j]!])));
+  S.forEach((u, j) => out.push([u, 'P1', X[j]!]));
+  return out;
+}
+
+function expectTable(t: ReturnType<typeof readTable>['table']) {
+  expect(t.sectors.codes).toEqual(S);
+  expect(Array.from(t.Z.data)).toEqual(Z.flat());
+  expect(t.finalDemand.codes).toEqual(FD);
+  expect(Array.from(t.F.data)).toEqual(F.flat());
+  expect(t.valueAdded.codes).toEqual(VA);
+  expect(Array.from(t.V.data)).toEqual(V.flat());
+  expect(Array.from(t.x)).toEqual(X);
+}
+
+describe('long files with national-accounts codes', () => {
+  it('reads a file that lists the user first, with no header, the right way round, and says why', () => {
+    const text = triplets().map(([u, p, v]) => `${u},${p},${v}`).join('\n');
+    const r = readTable(readLongCsv(text, { file: 'user-first.csv' }));
+    expectTable(r.table);
+    const note = r.findings.find((f) => f.code === 'long-transposed')!;
+    expect(note.message).toMatch(/row codes look like final demand \('P3_S14'/);
+    expect(note.message).toMatch(/column codes look like value added \('D1'/);
+    expect(r.mapping.transposed).toBe(true);
+    // The mapping it reports reads the file the same way again, without the guess.
+    const again = readTable(readLongCsv(text, { file: 'user-first.csv', mapping: r.mapping }), { mapping: r.mapping });
+    expectTable(again.table);
+    expect(again.findings.some((f) => f.code === 'long-transposed')).toBe(false);
+  });
+
+  it('reads a file in the product-first order as it stands', () => {
+    const text = triplets().map(([u, p, v]) => `${p},${u},${v}`).join('\n');
+    const r = readTable(readLongCsv(text, { file: 'product-first.csv' }));
+    expectTable(r.table);
+    expect(r.findings.some((f) => f.code === 'long-transposed')).toBe(false);
+  });
+
+  it('takes the orientation from a header that names the fields, among constant fields', () => {
+    const head = 'DATAFLOW,freq,unit,induse,prod_na,geo,TIME_PERIOD,OBS_VALUE,OBS_FLAG';
+    const text = [head, ...triplets().map(([u, p, v]) => `NAIO,A,MIO_EUR,${u},${p},XX,2020,${v},`)].join('\n');
+    const lt = readLongCsv(text, { file: 'sdmx.csv' });
+    expect(lt.orientation).toBe('named');
+    const r = readTable(lt);
+    expectTable(r.table);
+    expect(r.findings.find((f) => f.code === 'long-fields')!.message).toMatch(/field 5 'prod_na' the row and field 4 'induse' the column/);
+  });
+
+  it('keeps the orientation a mapping gives, even against the codes', () => {
+    const text = triplets().map(([u, p, v]) => `${u},${p},${v}`).join('\n');
+    const lt = readLongCsv(text, { file: 'given.csv', transposed: false });
+    expect(lt.orientation).toBe('given');
+    const r = readTable(lt);
+    expect(r.table.sectors.codes).toEqual(S);
+    expect(r.findings.some((f) => f.code === 'long-transposed')).toBe(false);
+    // Read as given, the final-demand codes are rows: the table is not the one above.
+    expect(Array.from(r.table.Z.data)).not.toEqual(Z.flat());
+  });
+});
+
+describe('the decimal mark on the command line', () => {
+  it('is asked for when every number is ambiguous, and --decimal settles it', async () => {
+    const dir = tempDir();
+    const file = join(dir, 'ambiguous.csv');
+    // Every value has three decimals and lies between 1 and 1000: '11.250' may be 11.25 or 11250.
+    const lines = triplets().map(([u, p, v]) => `${p},${u},${(v * 1.125).toFixed(3)}`);
+    writeFileSync(file, lines.join('\n'));
+    const bad = await run(['check', file]);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toMatch(/could be .* \('\.' as a thousands separator\) or .* \('\.' as the decimal mark\)/);
+    expect(bad.stderr).toMatch(/--decimal \. or --decimal ,/);
+    const good = await run(['check', file, '--decimal', '.', '--json']);
+    expect(good.code).toBe(0);
+    const out = JSON.parse(good.stdout) as { findings: { code: string; message: string }[] };
+    expect(out.findings.find((f) => f.code === 'csv-conventions')?.message ?? '').toMatch(/decimal mark '\.' \(as given\)/);
+    const wrong = await run(['check', file, '--decimal', 'x']);
+    expect(wrong.code).toBe(2);
+    expect(wrong.stderr).toMatch(/--decimal must be '\.' or ','; got 'x'/);
+  });
+});
