@@ -29,6 +29,19 @@ export interface TableFlags {
   tableKind?: string;
   decimal?: string;
   thousands?: string;
+  select?: string[];
+}
+
+/** --select FIELD=VALUE (repeatable), checked. */
+export function selectOption(list: string[] | undefined): Record<string, string> | undefined {
+  if (!list?.length) return undefined;
+  const out: Record<string, string> = {};
+  for (const s of list) {
+    const at = s.indexOf('=');
+    if (at <= 0) throw new UsageError(`--select takes FIELD=VALUE, such as TIME_PERIOD=2020; got '${s}'`, 'bad-select');
+    out[s.slice(0, at).trim()] = s.slice(at + 1).trim();
+  }
+  return out;
 }
 
 /** --decimal and --thousands, checked, as the readers take them. */
@@ -124,6 +137,8 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
   }
   const sheet = sheetOption(flags.sheet);
   const numbers = numberOptions(flags);
+  const select = selectOption(flags.select);
+  if (select && flags.shape === 'wide') throw new UsageError('--select applies to long files; this one is read as wide (--shape wide)', 'select-not-long');
   const r = await readTableFile(file.bytes, {
     file: ioName(file, format),
     ...numbers,
@@ -131,7 +146,9 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     ...(format === 'tsv' ? { delimiter: '\t' as const } : {}),
     ...(mapping ? { mapping } : {}),
     ...(flags.shape ? { shape: flags.shape as 'wide' | 'long' } : {}),
-    ...(blanks ? { blanks, long: { blanks } } : {}),
+    ...(blanks || select ? { long: { ...(blanks ? { blanks } : {}), ...(select ? { select } : {}) } } : {}),
+    ...(blanks ? { blanks } : {}),
+    ...(select ? { shape: flags.shape === 'wide' ? 'wide' : ('long' as const) } : {}),
     ...(flags.tableKind ? { kind: flags.tableKind as 'flows' | 'coefficients' } : {}),
   });
   const out: LoadedTable = { table: r.table, file, findings: r.findings, extra, mapping: r.mapping, shape: r.shape };

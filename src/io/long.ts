@@ -37,6 +37,8 @@ export interface LongOptions extends CsvOptions {
   transposed?: boolean;
   /** A pair given twice: an error (default) or added. */
   duplicates?: 'error' | 'sum';
+  /** Keep only the lines whose fields hold these texts, by header name or 1-based field number (see LayoutMapping.select). */
+  select?: Record<string, string>;
   /** An empty value field: an error (default) or zero. */
   blanks?: 'error' | 'zero';
   zeroTexts?: string[];
@@ -55,7 +57,7 @@ export interface LongTable {
   block: DenseBlock;
   /** Number of lines with a value. */
   entries: number;
-  mapping: Pick<LayoutMapping, 'shape' | 'file' | 'rowCodeField' | 'columnCodeField' | 'valueField' | 'headerLine' | 'transposed' | 'blanks' | 'zeroTexts'> & { conventions?: Record<string, unknown> };
+  mapping: Pick<LayoutMapping, 'shape' | 'file' | 'rowCodeField' | 'columnCodeField' | 'valueField' | 'headerLine' | 'transposed' | 'select' | 'blanks' | 'zeroTexts'> & { conventions?: Record<string, unknown> };
   conventions: NumberConventions & { delimiter?: Delimiter; encoding?: Encoding };
   findings: Finding[];
   /**
@@ -268,6 +270,10 @@ interface FieldChoice {
   transposed: boolean;
   /** How the orientation was decided: given (an option or the mapping), named by the header, or the order of the fields. */
   orientation: 'given' | 'named' | 'order';
+  /** Lines kept only where field i (0-based) holds the text. */
+  select: { field: number; name: string; value: string }[];
+  /** Fields besides the codes and the value whose texts change from line to line, with a few of their texts (for the message on a pair given twice). */
+  varying: { field: number; name: string; values: string[] }[];
   rowLabel?: number;
   colLabel?: number;
   why: string[];
@@ -303,7 +309,30 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
       header = first.some((t, i) => t.trim() !== '' && !isNum(t) && later.length > 0 && later.filter((l) => l[i] !== undefined && isNum(l[i]!)).length >= later.length * 0.8);
     }
   }
-  const data = header ? lines.slice(1) : lines;
+  const select: FieldChoice['select'] = [];
+  const given = options.select ?? m.select;
+  if (given) {
+    const names = header ? first.map((t) => t.trim()) : [];
+    for (const [key, value] of Object.entries(given)) {
+      let field = /^\d+$/.test(key.trim()) ? Number(key) - 1 : names.findIndex((n) => n.toLowerCase() === key.trim().toLowerCase());
+      if (field < 0 || field >= nf) {
+        throw new InputError(
+          'bad-select',
+          `file ${file}: the selection names field '${key}', which ${/^\d+$/.test(key.trim()) ? `is not among its ${nf} fields` : header ? 'is not in its header line' : 'cannot be found: the file has no header line, so give the field by number'}`,
+          { file, text: key },
+          names.length ? `The header names ${names.filter(Boolean).slice(0, 12).map((n) => `'${n}'`).join(', ')}` : undefined,
+        );
+      }
+      select.push({ field, name: names[field] || `field ${field + 1}`, value: String(value).trim() });
+    }
+  }
+  const keep = (l: string[]) => select.every((q) => (l[q.field] ?? '').trim() === q.value);
+  const data = (header ? lines.slice(1) : lines).filter(keep);
+  if (!data.length && select.length) {
+    const q = select[0]!;
+    const seen = [...new Set((header ? lines.slice(1) : lines).map((l) => (l[q.field] ?? '').trim()))].slice(0, 8);
+    throw new InputError('select-nothing', `file ${file}: no line has ${select.map((x) => `${x.name} = '${x.value}'`).join(' and ')}`, { file, text: q.value }, `${q.name} holds ${seen.map((v) => `'${v}'`).join(', ')}${seen.length === 8 ? ', ...' : ''}`);
+  }
   if (!data.length) throw new InputError('no-rows', `file ${file} has a header line but no data lines`, { file }, 'Give a file with at least one line of data');
   if (header) {
     const names = first.map((t) => t.trim());
@@ -395,7 +424,15 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
     [row, col] = [col, row];
     why.push('transposed: the first code field is the column');
   }
-  const choice: FieldChoice = { row, col, value, header, transposed, orientation, why };
+  const names = header ? first.map((t) => t.trim()) : [];
+  const varying: FieldChoice['varying'] = [];
+  for (let i = 0; i < nf; i++) {
+    if (i === row || i === col || i === value || prof[i]!.filled === 0 || prof[i]!.labelLike || select.some((q) => q.field === i)) continue;
+    const vals = [...new Set(data.map((l) => (l[i] ?? '').trim()))];
+    if (vals.length > 1) varying.push({ field: i, name: names[i] || `field ${i + 1}`, values: vals.slice(0, 4) });
+  }
+  if (select.length) why.push(`only lines with ${select.map((q) => `${q.name} = '${q.value}'`).join(' and ')} are read`);
+  const choice: FieldChoice = { row, col, value, header, transposed, orientation, select, varying, why };
   const rl = row + 1;
   if (rl < nf && rl !== col && rl !== value && prof[rl]!.labelLike) choice.rowLabel = rl;
   const cl = col + 1;
@@ -580,7 +617,7 @@ class LongReader {
   /** One record as texts (grid lines and sample lines). */
   texts(f: string[]): void {
     const ch = this.choice;
-    if (f.every((x) => x.trim() === '')) {
+    if (f.every((x) => x.trim() === '') || (ch.select.length && !ch.select.every((q) => (f[q.field] ?? '').trim() === q.value))) {
       this.skipped.push(this.record);
       return;
     }
@@ -659,7 +696,9 @@ class LongReader {
         'duplicate-entry',
         `file ${file}, line ${line}: row '${this.rows.codes[d.r]}', column '${this.cols.codes[d.c]}' is given a second time`,
         { file, row: line, rowLabel: this.rows.codes[d.r]!, columnLabel: this.cols.codes[d.c]! },
-        "Remove the repeated line, or read with duplicates: 'sum' if repeated lines are parts to add",
+        this.choice.varying.length
+          ? `The lines differ in ${this.choice.varying.map((v) => `${v.name} (${v.values.map((x) => `'${x}'`).join(', ')}${v.values.length === 4 ? ', ...' : ''})`).join(' and ')}: keep one with a selection, such as select: { "${this.choice.varying[0]!.name}": "${this.choice.varying[0]!.values.at(-1)}" } (the command line: --select ${/\s/.test(this.choice.varying[0]!.name) ? this.choice.varying[0]!.field + 1 : this.choice.varying[0]!.name}=${this.choice.varying[0]!.values.at(-1)})`
+          : "Remove the repeated line, or read with duplicates: 'sum' if repeated lines are parts to add",
       );
     }
     const labels = this.options.labels instanceof Map ? this.options.labels : new Map(Object.entries(this.options.labels ?? {}));
@@ -679,6 +718,7 @@ class LongReader {
       valueField: ch.value + 1,
       headerLine: ch.header ? 1 : null,
       transposed: ch.transposed,
+      ...(ch.select.length ? { select: Object.fromEntries(ch.select.map((q) => [q.name.startsWith('field ') ? String(q.field + 1) : q.name, q.value])) } : {}),
       blanks: this.zeroBlank ? 'zero' : 'error',
       conventions: { ...conventions },
     };
@@ -829,6 +869,13 @@ class LongSink implements FieldSink {
       r.skipped.push(r.record);
       r.record++;
       return;
+    }
+    for (const q of ch.select) {
+      if ((q.field < nf ? this.text(b, fs[3 * q.field]!, fs[3 * q.field + 1]!, fs[3 * q.field + 2]!, r.record, q.field).trim() : '') !== q.value) {
+        r.skipped.push(r.record);
+        r.record++;
+        return;
+      }
     }
     const need = Math.max(ch.row, ch.col, ch.value);
     if (nf <= Math.max(ch.row, ch.col) || (nf <= need && !valueLast(ch))) r.short(nf);

@@ -81,6 +81,12 @@ export interface LayoutMapping {
   headerLine?: number | null;
   /** Long files: true when the first code field names the column (the file lists column, row, value). */
   transposed?: boolean;
+  /**
+   * Long files: keep only the lines whose fields hold these values, by header name or 1-based
+   * field number, such as { "TIME_PERIOD": "2020", "geo": "XX" } (a download of several years or
+   * regions).
+   */
+  select?: Record<string, string>;
   rows: MappedRow[];
   columns: MappedColumn[];
   /** Where total output came from: a total column, a total row, the row sums, or assumed 1 (coefficients without outputs). */
@@ -192,6 +198,9 @@ export function parseMapping(input: string | unknown, file = 'mapping'): Mapping
     if (v !== undefined && !(Array.isArray(v) && v.every((x) => typeof x === 'number' && Number.isInteger(x) && x >= 1))) {
       throw new InputError('bad-mapping', `file ${file}: ${f} must be a list of row numbers from 1`, { file });
     }
+  }
+  if (m.select !== undefined && !(typeof m.select === 'object' && m.select !== null && !Array.isArray(m.select) && Object.values(m.select).every((v) => typeof v === 'string'))) {
+    throw new InputError('bad-mapping', `file ${file}: select must be an object of field names (or numbers) and the texts to keep, such as { "TIME_PERIOD": "2020" }`, { file });
   }
   if (m.blanks !== undefined && m.blanks !== 'error' && m.blanks !== 'zero') throw new InputError('bad-mapping', `file ${file}: blanks must be 'error' or 'zero'`, { file });
   if (m.zeroTexts !== undefined && !(Array.isArray(m.zeroTexts) && m.zeroTexts.every((x) => typeof x === 'string'))) {

@@ -94,7 +94,13 @@ export function guessShape(grid: Grid): 'wide' | 'long' {
     for (let c = f1 + 1; c < row.kinds.length; c++) if (row.kinds[c] === 1) numeric = true;
   }
   if (lines < 3 || !numeric) return 'wide';
-  return a.size <= lines * 0.8 && b.size <= lines * 0.8 && pairs.size >= lines * 0.9 ? 'long' : 'wide';
+  if (a.size > lines * 0.8 || b.size > lines * 0.8) return 'wide';
+  if (pairs.size >= lines * 0.9) return 'long';
+  // Pairs repeat (several years or regions in one download): still long when a header names the
+  // value field and the file has few fields; the long reader then asks which lines to keep.
+  const head = grid.rows[0];
+  const named = head && head.kinds.some((k, c) => k !== EMPTY && /^(value|values|amount|obs_value|flow|flows)$/i.test(grid.text(0, c).trim()));
+  return named && grid.colCount <= 20 ? 'long' : 'wide';
 }
 
 export interface ReadFileOptions extends GridOptions, ReadTableOptions {

@@ -9,6 +9,7 @@
  * SDMX-CSV downloads) decides; a mapping that says "transposed" decides over both. The decimal
  * mark of a file whose every number is ambiguous is chosen on the command line.
  */
+import { Matrix as MlMatrix, inverse } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { readLongCsv } from '../../src/io/long';
 import { readTable } from '../../src/io/tables';
@@ -99,6 +100,52 @@ describe('long files with national-accounts codes', () => {
     expect(r.findings.some((f) => f.code === 'long-transposed')).toBe(false);
     // Read as given, the final-demand codes are rows: the table is not the one above.
     expect(Array.from(r.table.Z.data)).not.toEqual(Z.flat());
+  });
+});
+
+describe('a download of several years', () => {
+  const head = 'DATAFLOW,freq,unit,induse,prod_na,geo,TIME_PERIOD,OBS_VALUE,OBS_FLAG';
+  const lines = [head];
+  for (const [year, f] of [['2019', 2], ['2020', 1]] as const) for (const [u, p, v] of triplets()) lines.push(`NAIO,A,MIO_EUR,${u},${p},XX,${year},${v * f},`);
+  const text = lines.join('\n');
+
+  it('says which field tells the repeated lines apart, and reads the year selected', () => {
+    let err: unknown;
+    try {
+      readLongCsv(text, { file: 'years.csv' });
+    } catch (e) {
+      err = e;
+    }
+    expect((err as Error).message).toMatch(/row 'CPA_A01', column 'CPA_A01' is given a second time/);
+    expect((err as Error).message).toMatch(/differ in TIME_PERIOD \('2019', '2020'\).*--select TIME_PERIOD=2020/);
+    const r = readTable(readLongCsv(text, { file: 'years.csv', select: { TIME_PERIOD: '2020' } }));
+    expectTable(r.table);
+    expect(r.mapping.select).toEqual({ TIME_PERIOD: '2020' });
+    // By field number, through a mapping.
+    const again = readTable(readLongCsv(text, { file: 'years.csv', mapping: { select: { '7': '2019' } } as never }));
+    expect(Array.from(again.table.Z.data)).toEqual(Z.flat().map((v) => 2 * v));
+    expect(() => readLongCsv(text, { file: 'years.csv', select: { TIME_PERIOD: '2031' } })).toThrow(/no line has TIME_PERIOD = '2031'. TIME_PERIOD holds '2019', '2020'/);
+    expect(() => readLongCsv(text, { file: 'years.csv', select: { YEAR: '2020' } })).toThrow(/names field 'YEAR', which is not in its header line/);
+  });
+
+  it('takes --select on the command line', async () => {
+    const dir = tempDir();
+    const file = join(dir, 'years.csv');
+    writeFileSync(file, text);
+    const bad = await run(['check', file]);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toMatch(/--select TIME_PERIOD=2020/);
+    const good = await run(['multipliers', file, '--select', 'TIME_PERIOD=2020', '--json']);
+    expect(good.code).toBe(0);
+    // Output multipliers are the column sums of L = (I − A)⁻¹, here by ml-matrix (source: ml-matrix 6.15.1).
+    const A = new MlMatrix(Z.map((r) => r.map((v, j) => v / X[j]!)));
+    const L = inverse(MlMatrix.eye(3).sub(A));
+    const got = (JSON.parse(good.stdout) as { measures: { code: string; sectors: { code: string; simple: number }[] }[] }).measures.find((m) => m.code === 'output')!;
+    expect(got.sectors.map((x) => x.code)).toEqual(S);
+    got.sectors.forEach((x, j) => expect(Math.abs(x.simple - (L.get(0, j) + L.get(1, j) + L.get(2, j)))).toBeLessThan(1e-12));
+    const wrong = await run(['check', file, '--select', 'TIME_PERIOD']);
+    expect(wrong.code).toBe(2);
+    expect(wrong.stderr).toMatch(/--select takes FIELD=VALUE/);
   });
 });
 
