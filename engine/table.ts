@@ -50,6 +50,12 @@ export interface TableMeta {
   source?: string;
   /** True when the table came from coefficients without outputs (x = 1 per sector). */
   outputAssumed?: boolean;
+  /**
+   * The unit the published figures are rounded to (0.1 for one decimal, 1 for whole numbers).
+   * When absent, the checks find it from the figures themselves; balances that miss by no more
+   * than the rounding of their parts allows are not flagged.
+   */
+  rounding?: number;
   /** True for invented data (the demo). */
   invented?: boolean;
   notes?: string[];

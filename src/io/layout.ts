@@ -54,6 +54,7 @@ const META_KEYS: Record<string, keyof TableMeta> = {
   prices: 'priceBasis',
   source: 'source',
   'output assumed': 'outputAssumed',
+  'rounded to': 'rounding',
   'invented data': 'invented',
   invented: 'invented',
 };
@@ -586,7 +587,7 @@ function rowText(g: Grid, r: number): string {
 
 function setMeta(meta: TableMeta, key: keyof TableMeta, value: string): void {
   const m = meta as Record<string, unknown>;
-  if (key === 'scale' || key === 'year') {
+  if (key === 'scale' || key === 'year' || key === 'rounding') {
     const v = Number(value);
     if (Number.isFinite(v)) m[key] = v;
   } else if (key === 'outputAssumed' || key === 'invented') m[key] = /^(true|yes|1)$/i.test(value);

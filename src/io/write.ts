@@ -49,6 +49,7 @@ const META_ORDER: [keyof TableMeta, string][] = [
   ['priceBasis', 'price basis'],
   ['source', 'source'],
   ['outputAssumed', 'output assumed'],
+  ['rounding', 'rounded to'],
   ['invented', 'invented data'],
 ];
 

@@ -112,6 +112,38 @@ describe('findings', () => {
     expect(codes(w)).not.toContain('column-imbalance');
   });
 
+  it('a balance that misses by no more than the rounding of its figures is a note, not a warning (common practice: published tables are rounded, and totals are rounded apart from their parts)', () => {
+    // Figures to one decimal: row 1 sums to 1.5 + 5.0 + 3.3 = 9.8 against 10.0; three rounded
+    // parts and a rounded total may be off by 4 × 0.05 = 0.2 at worst.
+    const t: PlainTable = {
+      sectors: { codes: ['A', 'B'], labels: ['Alpha', 'Beta'] },
+      Z: [
+        [1.5, 5.0],
+        [2.0, 1.0],
+      ],
+      finalDemand: { codes: ['HH'], labels: ['Households'], values: [[3.3], [17.0]] },
+      valueAdded: { codes: ['VA'], labels: ['Value added'], values: [[6.5, 14.0]] },
+      x: [10.0, 20.0],
+    };
+    const f = checks(makeTable(t));
+    expect(f.map((x) => x.code)).not.toContain('row-imbalance');
+    const note = f.find((x) => x.code === 'balance-within-rounding')!;
+    expect(note.severity).toBe('note');
+    expect(note.message).toMatch(/1 row miss.* rounding of the figures \(to 0.1\) allows; the largest: 'Alpha' 9.80000 against 10.0000/);
+    // Off by 0.5: beyond what rounding to 0.1 explains.
+    const u = structuredClone(t);
+    u.finalDemand!.values[0]![0] = 3.0;
+    expect(codes(u)).toContain('row-imbalance');
+    // The same gap is within rounding when the table says its figures are rounded to whole units.
+    u.meta = { rounding: 1 };
+    expect(codes(u)).not.toContain('row-imbalance');
+    expect(codes(u)).toContain('balance-within-rounding');
+    // Figures with many decimals are computed, not rounded: the relative tolerance alone applies.
+    const w = structuredClone(t);
+    w.Z[0]![0] = 1.5 + 1e-7;
+    expect(codes(w)).toContain('row-imbalance');
+  });
+
   it('a zero-output sector is a warning and a negative output an error', () => {
     const t = twoSector();
     t.sectors = { codes: ['AGR', 'MFG', 'EMPTY'] };
