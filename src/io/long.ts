@@ -427,7 +427,7 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
   const names = header ? first.map((t) => t.trim()) : [];
   const varying: FieldChoice['varying'] = [];
   for (let i = 0; i < nf; i++) {
-    if (i === row || i === col || i === value || prof[i]!.filled === 0 || prof[i]!.labelLike || select.some((q) => q.field === i)) continue;
+    if (i === row || i === col || i === value || prof[i]!.filled === 0 || prof[i]!.labelLike || select.some((q) => q.field === i) || /^(obs_)?(flags?|status|notes?)$/i.test(names[i] ?? '')) continue;
     const vals = [...new Set(data.map((l) => (l[i] ?? '').trim()))];
     if (vals.length > 1) varying.push({ field: i, name: names[i] || `field ${i + 1}`, values: vals.slice(0, 4) });
   }

@@ -8,6 +8,7 @@ import type { Finding } from '../../engine/findings';
 import { type CsvOptions, readCsv } from './csv';
 import { EMPTY, type Grid, normalizeCode } from './grid';
 import { readTableJson } from './json';
+import { unpackIfKeyed } from './keyed';
 import { type LongOptions, readLongGrid } from './long';
 import type { MappingInput } from './mapping';
 import { type ReadTableOptions, readTable, type TableRead } from './tables';
@@ -47,10 +48,10 @@ export async function readGrid(bytes: Uint8Array, options: GridOptions): Promise
   if (kind === 'json') throw new InputError('not-a-sheet', `file ${options.file} holds JSON, not a sheet of cells`, { file: options.file }, 'Read it as a JSON table');
   if (kind === 'xlsx') {
     const x = await readXlsx(bytes, options);
-    return { grid: x.grid, kind, conventions: { ...x.conventions }, sheets: x.sheets, findings: x.findings };
+    return unpackIfKeyed({ grid: x.grid, kind, conventions: { ...x.conventions }, sheets: x.sheets, findings: x.findings });
   }
   const c = readCsv(bytes, options);
-  return { grid: c.grid, kind, conventions: { ...c.conventions }, findings: c.findings };
+  return unpackIfKeyed({ grid: c.grid, kind, conventions: { ...c.conventions }, findings: c.findings });
 }
 
 /**
@@ -91,7 +92,8 @@ export function guessShape(grid: Grid): 'wide' | 'long' {
     a.add(x);
     b.add(y);
     pairs.add(`${x}\u0000${y}`);
-    for (let c = f1 + 1; c < row.kinds.length; c++) if (row.kinds[c] === 1) numeric = true;
+    // A number, or a number kept as text (a value set apart from its flag in a keyed sheet).
+    for (let c = f1 + 1; c < row.kinds.length && !numeric; c++) if (row.kinds[c] === 1 || (row.kinds[c] !== EMPTY && /^\s*[-+]?\d[\d.,]*\s*$/.test(grid.text(r, c)))) numeric = true;
   }
   if (lines < 3 || !numeric) return 'wide';
   if (a.size > lines * 0.8 || b.size > lines * 0.8) return 'wide';
@@ -111,6 +113,21 @@ export interface ReadFileOptions extends GridOptions, ReadTableOptions {
   mapping?: MappingInput;
 }
 
+/**
+ * A keyed sheet of several periods (see keyed.ts) is read for its latest period unless a period
+ * is chosen: the selection to use and the note that says so, or undefined.
+ */
+export function latestPeriod(findings: readonly Finding[], file: string, chosen: Record<string, string>): { select: Record<string, string>; note: Finding } | undefined {
+  const keyed = findings.find((f) => f.code === 'keyed-sheet');
+  const field = keyed?.data?.field as string | undefined;
+  if (!keyed || !field || Number(keyed.data!.periods) < 2 || Object.keys(chosen).some((k) => k.toLowerCase() === field.toLowerCase())) return undefined;
+  const latest = String(keyed.data!.latest);
+  return {
+    select: { ...chosen, [field]: latest },
+    note: { code: 'latest-period', severity: 'note', message: `file ${file}: the latest ${field}, ${latest}, is read; choose another with select: { "${field}": "..." } (the command line: --select ${field}=...)`, where: { file } },
+  };
+}
+
 /** Read a table from a file's bytes: JSON as written by the JSON writer, or a CSV or XLSX sheet, wide or long. */
 export async function readTableFile(bytes: Uint8Array, options: ReadFileOptions): Promise<TableRead & { shape: 'wide' | 'long' | 'json' }> {
   const kind = sniffFile(bytes, options.file);
@@ -122,6 +139,11 @@ export async function readTableFile(bytes: Uint8Array, options: ReadFileOptions)
   const shape = options.shape ?? options.mapping?.shape ?? guessShape(g.grid);
   if (shape === 'long') {
     const lo: Omit<LongOptions, 'file'> = { ...(options.decimal ? { decimal: options.decimal } : {}), ...(options.thousands !== undefined ? { thousands: options.thousands } : {}), ...(options.long ?? {}) };
+    const latest = latestPeriod(g.findings, options.file, { ...(options.mapping?.select ?? {}), ...(lo.select ?? {}) });
+    if (latest) {
+      lo.select = latest.select;
+      g.findings.push(latest.note);
+    }
     if (options.mapping) lo.mapping = options.mapping;
     const long = readLongGrid(g.grid, lo);
     const r = readTable(long, options);

@@ -13,6 +13,7 @@ import { Matrix as MlMatrix, inverse } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
 import { readLongCsv } from '../../src/io/long';
 import { readTable } from '../../src/io/tables';
+import { readTableFile } from '../../src/io/open';
 import { run, tempDir } from '../cli/harness';
 import { writeFileSync } from 'node:fs';
 import { join } from 'node:path';
@@ -146,6 +147,30 @@ describe('a download of several years', () => {
     const wrong = await run(['check', file, '--select', 'TIME_PERIOD']);
     expect(wrong.code).toBe(2);
     expect(wrong.stderr).toMatch(/--select takes FIELD=VALUE/);
+  });
+});
+
+describe('a keyed sheet: codes packed in the first column, one column per period', () => {
+  // The layout of statistical bulk downloads: 'unit,induse,prod_na,geo\\TIME_PERIOD' heads the
+  // packed codes; values may carry a flag after a space, and ':' is a value not available.
+  const lines = ['unit,induse,prod_na,geo\\TIME_PERIOD\t2019 \t2020 '];
+  triplets().forEach(([u, p, v], k) => lines.push(`MIO_EUR,${u},${p},XX\t${k === 0 ? ':' : `${2 * v} e`}\t${v}${k % 3 ? '' : ' p'} `));
+  const bytes = new TextEncoder().encode(lines.join('\n'));
+
+  it('is read as a long file, a period at a time, flags set apart', async () => {
+    const r = await readTableFile(bytes, { file: 'bulk.tsv', long: { select: { TIME_PERIOD: '2020' } } });
+    expect(r.shape).toBe('long');
+    expectTable(r.table);
+    const note = r.findings.find((f) => f.code === 'keyed-sheet')!;
+    expect(note.message).toMatch(/packs the codes unit, induse, prod_na, geo and each further column is a TIME_PERIOD \(2019, 2020\)/);
+    // 2019 has a value not available (':') in its first line: an empty cell, named, under the text-file rule.
+    await expect(readTableFile(bytes, { file: 'bulk.tsv', long: { select: { TIME_PERIOD: '2019' } } })).rejects.toThrow(/empty/i);
+    const zero = await readTableFile(bytes, { file: 'bulk.tsv', long: { select: { TIME_PERIOD: '2019' }, blanks: 'zero' } });
+    expect(Array.from(zero.table.Z.data)).toEqual([0, ...Z.flat().slice(1).map((v) => 2 * v)]);
+    // Without a period chosen, the latest is read, and a note says so.
+    const latest = await readTableFile(bytes, { file: 'bulk.tsv' });
+    expectTable(latest.table);
+    expect(latest.findings.find((f) => f.code === 'latest-period')!.message).toMatch(/the latest TIME_PERIOD, 2020, is read; .*--select TIME_PERIOD=/);
   });
 });
 

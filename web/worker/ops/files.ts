@@ -11,6 +11,8 @@ import type { Finding, PlainTable, Technology } from '../../../engine/index';
 import {
   guessShape,
   readCsv,
+  unpackIfKeyed,
+  latestPeriod,
   readLongGrid,
   readSupplyUse,
   readTable,
@@ -132,9 +134,10 @@ async function readCells(name: string, bytes: Uint8Array, options: ReadConventio
   const num = { ...(options.decimal ? { decimal: options.decimal } : {}), ...(options.thousands !== undefined ? { thousands: options.thousands } : {}) };
   if (kind === 'xlsx') {
     const x = await readXlsx(bytes, { file: name, ...num, ...(options.sheet !== undefined && options.sheet !== '' ? { sheet: options.sheet } : {}) });
-    return { kind, grid: x.grid, sheets: x.sheets, sheet: x.sheet, conventions: { ...x.conventions }, readFindings: x.findings };
+    const k = unpackIfKeyed({ grid: x.grid, findings: x.findings });
+    return { kind, grid: k.grid, sheets: x.sheets, sheet: x.sheet, conventions: { ...x.conventions }, readFindings: k.findings };
   }
-  const c = readCsv(bytes, { file: name, ...num, ...(options.delimiter ? { delimiter: options.delimiter } : {}) });
+  const c = unpackIfKeyed(readCsv(bytes, { file: name, ...num, ...(options.delimiter ? { delimiter: options.delimiter } : {}) }));
   return { kind, grid: c.grid, conventions: { ...c.conventions }, readFindings: c.findings };
 }
 
@@ -162,7 +165,10 @@ function info(s: OpenSheet): SheetInfo {
 function sourceOf(s: OpenSheet, mapping: MappingInput | undefined): TableSource {
   const shape = mapping?.shape ?? guessShape(s.grid);
   if (shape !== 'long') return s.grid;
-  return readLongGrid(s.grid, mapping ? { mapping } : {}) as LongTable;
+  const latest = latestPeriod(s.readFindings, s.name, mapping?.select ?? {});
+  const t = readLongGrid(s.grid, { ...(mapping ? { mapping } : {}), ...(latest ? { select: latest.select } : {}) }) as LongTable;
+  if (latest) t.findings.unshift(latest.note);
+  return t;
 }
 
 function checkedMapping(m: unknown, file: string): MappingInput | undefined {
