@@ -113,6 +113,16 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     if (!own && (/\s/.test(e.code) || labelSets.some((q) => q.label(e.label)))) return undefined;
     return m.code(e.code);
   };
+  // A supply table lists, beside the industries, imports, trade and transport margins and taxes
+  // on products: lines of the supply of products that no industry makes.
+  const supplyExtra = (e: Entry): string | undefined => {
+    let m: string | undefined;
+    if ((m = codeOf(e, P.imports)) || (m = P.imports.label(e.label))) return `imports (${m})`;
+    if (/^(trade|transport|distribution|wholesale|retail)?[\s,a-z]*margins?\b/i.test(e.label)) return 'margins';
+    if (/^total\s+supply\b/i.test(e.label)) return 'total supply (with imports and margins)';
+    if (/^(taxes|subsidies)\b.*\bproducts?\b/i.test(e.label) || /^(taxes|subsidies) (less|minus|net of) (taxes|subsidies)\b/i.test(e.label)) return 'taxes less subsidies on products';
+    return undefined;
+  };
   const colRole = (e: Entry): RoleWhy<ColumnRole> => {
     const o = overrideFor<ColumnRole>(colO, e);
     if (o?.role) return { role: o.role, why: 'mapping' };
@@ -120,6 +130,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     if (sr) return { role: sr, why: 'role written in the sheet' };
     let m: string | undefined;
     if ((m = codeOf(e, P.ignore)) || (m = P.ignore.label(e.label))) return { role: 'ignore', why: `ignore pattern ${m}` };
+    if (kind === 'make' && (m = supplyExtra(e))) return { role: 'ignore', why: `${m}: part of the supply of products, but made by no industry (not read)` };
     if ((m = P.output.label(e.label))) return { role: 'output', why: `label matches ${m}` };
     if ((m = P.totals.label(e.label))) {
       const r: RoleWhy<ColumnRole> = { role: 'total', why: `label matches ${m}` };
@@ -150,6 +161,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     if (sr) return { role: sr, why: 'role written in the sheet' };
     let m: string | undefined;
     if ((m = codeOf(e, P.ignore)) || (m = P.ignore.label(e.label))) return { role: 'ignore', why: `ignore pattern ${m}` };
+    if (kind === 'make' && (m = supplyExtra(e))) return { role: 'ignore', why: `${m}: part of the supply of products, but made by no industry (not read)` };
     if ((m = P.output.label(e.label))) return { role: 'output', why: `label matches ${m}` };
     const altOf = (label: string): RowRole | undefined => {
       if (plain) return undefined;

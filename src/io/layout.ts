@@ -123,6 +123,9 @@ function matchPairs(g: Grid): Pair[] {
       for (let j = c + 1; j < C; j++) {
         const s = t[j]!;
         if (!s || seen.has(s)) continue;
+        // A number is a code only as a whole number such as 1100 (never 0, a sign or a fraction):
+        // values that happen to appear in a row and a column are data, not codes.
+        if (g.kind(h, j) === NUMBER && !/^[1-9]\d*$/.test(s)) continue;
         const rs = rowsOf.get(s);
         if (!rs) continue;
         const below = rs.find((r) => r > h);

@@ -224,6 +224,16 @@ export function readSupplyUse(makeSource: TableSource, useSource: TableSource, o
     }
   }
 
+  // In supply and use tables rows and columns are different classifications, so no code names
+  // both: the layout chosen by position is the usual case, and the codes of the two tables, which
+  // agree, confirm it.
+  for (let i = 0; i < findings.length; i++) {
+    const f = findings[i]!;
+    if (f.code === 'layout-by-position' && f.severity === 'warning') {
+      findings[i] = { ...f, severity: 'note', message: `${f.message.replace(/; check the mapping$/, '')}, as usual in supply and use tables (products and industries are different classifications); the industry and commodity codes of the two tables agree` };
+    }
+  }
+
   const out: SupplyUseRead = {
     input,
     finalDemand: { axis: { codes: use.finalDemand.map((j) => use.block.cols[j]!.code), labels: use.finalDemand.map((j) => use.block.cols[j]!.label) }, F: { rows: nc, cols: k, data: F } },
