@@ -46,6 +46,7 @@ export function tableOptions(cmd: Command): Command {
     .option('--shape <shape>', 'wide|long: a wide sheet or a long file of row code, column code and value (default: detected)')
     .option('--blanks <rule>', 'empty cells in the table: error or zero (default: zero in spreadsheets, error in text files)')
     .option('--select <field=value>', 'long files: read only the lines whose field (a header name or a number from 1) holds this text, such as TIME_PERIOD=2020 (repeatable)', collect)
+    .option('--zero-text <text>', "a text that means zero in the table's cells, such as - or .. (repeatable; default: none, such cells are errors)", collect)
     .option('--decimal <mark>', "the decimal mark of a CSV or TSV file: '.' or ',' (default: seen in the numbers)")
     .option('--thousands <separator>', "the thousands separator: one character, such as ',' '.' or ' ', or 'none' (default: seen in the numbers)")
     .option('--table-kind <kind>', 'flows|coefficients: transactions, or technical coefficients A (default: detected)');

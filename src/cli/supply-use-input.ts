@@ -4,7 +4,7 @@
  * or given counted from 1), aligned on industry and commodity codes by `readSupplyUse`.
  */
 import type { LayoutPatterns, PatternSet, SupplyUseRead, TableSource } from '../io/index';
-import { guessShape, readGrid, readLongGrid, readSupplyUse } from '../io/index';
+import { guessShape, latestPeriod, readGrid, readLongGrid, readSupplyUse } from '../io/index';
 import type { Technology } from '../../engine/supply-use';
 import type { CliContext } from './context';
 import { UsageError } from './errors';
@@ -17,12 +17,26 @@ export interface SideFlags {
   valueColumn?: number;
 }
 
-async function source(ctx: CliContext, name: string, role: 'make' | 'use', side: SideFlags): Promise<{ file: InputFile; source: TableSource; shape: 'wide' | 'long' }> {
+async function source(ctx: CliContext, name: string, role: 'make' | 'use', side: SideFlags, f: SupplyUseFlags): Promise<{ file: InputFile; source: TableSource; shape: 'wide' | 'long' }> {
   const file = await readInput(ctx, name, `${role} table`);
   const sheet = sheetOption(side.sheet);
-  const g = await readGrid(file.bytes, { file: file.name === '-' ? `standard input (${role})` : file.name, ...(sheet !== undefined ? { sheet } : {}) });
-  const shape = side.valueColumn !== undefined ? 'long' : guessShape(g.grid);
-  if (shape === 'long') return { file, source: readLongGrid(g.grid, side.valueColumn !== undefined ? { valueField: side.valueColumn } : {}), shape };
+  const fileName = file.name === '-' ? `standard input (${role})` : file.name;
+  const numbers = { ...(f.decimal ? { decimal: f.decimal } : {}), ...(f.thousands !== undefined ? { thousands: f.thousands } : {}) };
+  const g = await readGrid(file.bytes, { file: fileName, ...numbers, ...(sheet !== undefined ? { sheet } : {}) });
+  const shape = side.valueColumn !== undefined || f.select ? 'long' : guessShape(g.grid);
+  if (shape === 'long') {
+    const latest = latestPeriod(g.findings, fileName, f.select ?? {});
+    const select = latest?.select ?? f.select;
+    const long = readLongGrid(g.grid, {
+      ...numbers,
+      ...(side.valueColumn !== undefined ? { valueField: side.valueColumn } : {}),
+      ...(select ? { select } : {}),
+      ...(f.zeroTexts ? { zeroTexts: f.zeroTexts } : {}),
+      ...(f.blanks ? { blanks: f.blanks } : {}),
+    });
+    long.findings.unshift(...g.findings, ...(latest ? [latest.note] : []));
+    return { file, source: long, shape };
+  }
   return { file, source: g.grid, shape };
 }
 
@@ -33,12 +47,16 @@ export interface SupplyUseFlags {
   finalDemand?: string[];
   ignore?: string[];
   blanks?: 'error' | 'zero';
+  zeroTexts?: string[];
+  decimal?: '.' | ',';
+  thousands?: string;
+  select?: Record<string, string>;
 }
 
 export async function loadSupplyUse(ctx: CliContext, make: string, use: string, sides: { make: SideFlags; use: SideFlags }, f: SupplyUseFlags) {
   if (make === '-' && use === '-') throw new UsageError('the make and use tables cannot both come from standard input', 'two-stdin');
-  const mk = await source(ctx, make, 'make', sides.make);
-  const us = await source(ctx, use, 'use', sides.use);
+  const mk = await source(ctx, make, 'make', sides.make, f);
+  const us = await source(ctx, use, 'use', sides.use, f);
   const patterns: Partial<Record<keyof LayoutPatterns, Partial<PatternSet>>> = {};
   if (f.valueAdded) patterns.valueAdded = { codes: f.valueAdded };
   if (f.finalDemand) patterns.finalDemand = { codes: f.finalDemand };
@@ -48,6 +66,7 @@ export async function loadSupplyUse(ctx: CliContext, make: string, use: string, 
     ...(f.technology ? { technology: f.technology } : {}),
     ...(Object.keys(patterns).length ? { patterns } : {}),
     ...(f.blanks ? { blanks: f.blanks } : {}),
+    ...(f.zeroTexts ? { zeroTexts: f.zeroTexts } : {}),
   });
   return { make: mk, use: us, read };
 }

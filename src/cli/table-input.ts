@@ -30,6 +30,7 @@ export interface TableFlags {
   decimal?: string;
   thousands?: string;
   select?: string[];
+  zeroText?: string[];
 }
 
 /** --select FIELD=VALUE (repeatable), checked. */
@@ -138,6 +139,7 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
   const sheet = sheetOption(flags.sheet);
   const numbers = numberOptions(flags);
   const select = selectOption(flags.select);
+  const zeroTexts = flags.zeroText?.length ? flags.zeroText.map((t) => t.trim()).filter(Boolean) : undefined;
   if (select && flags.shape === 'wide') throw new UsageError('--select applies to long files; this one is read as wide (--shape wide)', 'select-not-long');
   const r = await readTableFile(file.bytes, {
     file: ioName(file, format),
@@ -146,7 +148,8 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     ...(format === 'tsv' ? { delimiter: '\t' as const } : {}),
     ...(mapping ? { mapping } : {}),
     ...(flags.shape ? { shape: flags.shape as 'wide' | 'long' } : {}),
-    ...(blanks || select ? { long: { ...(blanks ? { blanks } : {}), ...(select ? { select } : {}) } } : {}),
+    ...(blanks || select || zeroTexts ? { long: { ...(blanks ? { blanks } : {}), ...(select ? { select } : {}), ...(zeroTexts ? { zeroTexts } : {}) } } : {}),
+    ...(zeroTexts ? { zeroTexts } : {}),
     ...(blanks ? { blanks } : {}),
     ...(select ? { shape: flags.shape === 'wide' ? 'wide' : ('long' as const) } : {}),
     ...(flags.tableKind ? { kind: flags.tableKind as 'flows' | 'coefficients' } : {}),

@@ -107,7 +107,8 @@ function matchPairs(g: Grid): Pair[] {
     for (let r = 0; r < R; r++) {
       if (g.kind(r, c) === EMPTY) continue;
       const t = codeAt(g, r, c);
-      if (!t) continue;
+      // A code has a letter or a digit: '-', '..' or '…' in the cells are zeros or gaps, not codes.
+      if (!t || !/[\p{L}\p{N}]/u.test(t)) continue;
       const l = rowsOf.get(t);
       if (l) l.push(r);
       else rowsOf.set(t, [r]);

@@ -24,7 +24,7 @@ import { decodeBytes, type Encoding, sniffBom } from './decode';
 import { EMPTY, type Grid, normalizeCode, normalizeLabel } from './grid';
 import { checkBytes, limitsOf, sizeText } from './limits';
 import type { LayoutMapping, MappingInput } from './mapping';
-import { analyseNumber, type NumberConventions, NumberReader } from './numbers';
+import { analyseNumber, type NumberConventions, NumberReader, numberHint } from './numbers';
 
 export interface LongOptions extends CsvOptions {
   /** 1-based fields of the row code, the column code and the value. */
@@ -69,6 +69,8 @@ export interface LongTable {
 }
 
 const SAMPLE_LINES = 2000;
+/** Texts that stand for zero or a value not available in published tables. */
+const GAP = /^(n\/?a|\.\.|\.\.\.|…|-|–|—|x|:|c)$/i;
 const CHUNK = 1 << 20;
 
 const ROW_NAMES = /^(row|rows|from|origin|source|supplier|seller|producer|industry code|commodity code|i|prod|prod_na|products?|commodity|commodities|supplying[\s_-]+(industry|sector))([\s_-]*(code|id|key))?$/i;
@@ -351,9 +353,11 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
       why.push(`the header names field ${v + 1} '${names[v]}' the value`);
     }
   }
+  const zeroTexts = new Set((options.zeroTexts ?? m.zeroTexts ?? []).map((t) => t.trim()));
   // Profile the fields.
   const prof = Array.from({ length: nf }, (_, i) => {
     let num = 0;
+    let gaps = 0;
     let filled = 0;
     let spaced = 0;
     let len = 0;
@@ -365,9 +369,11 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
       len += t.length;
       if (/\s/.test(t)) spaced++;
       if (isNum(t)) num++;
+      else if (GAP.test(t) || zeroTexts.has(t)) gaps++;
       if (distinct.size < 3) distinct.add(t);
     }
-    return { num, filled, labelLike: filled > 0 && spaced >= filled * 0.5 && len / filled > 10, constant: distinct.size === 1 && filled === data.length, numeric: filled > 0 && num === filled };
+    // Numeric: numbers on every line but for texts that stand for zero or a gap ('-', '..').
+    return { num, filled, labelLike: filled > 0 && spaced >= filled * 0.5 && len / filled > 10, constant: distinct.size === 1 && filled === data.length, numeric: num > 0 && num + gaps === filled };
   });
   if (row === undefined || col === undefined) {
     const pick = (skipConstant: boolean) => {
@@ -609,7 +615,7 @@ class LongReader {
     }
     if (Number.isNaN(v)) {
       if (this.zeroTexts.has(t)) return this.add(r, c, 0);
-      throw new InputError('not-a-number', `file ${this.file}, line ${this.record + 1}, field ${field + 1}: text '${t}' where the value belongs (row '${this.rows.codes[r]}', column '${this.cols.codes[c]}')`, this.where(field, t, [this.rows.codes[r]!, this.cols.codes[c]!]), 'Give a number, or choose another value field (valueField)');
+      throw new InputError('not-a-number', `file ${this.file}, line ${this.record + 1}, field ${field + 1}: text '${t}' where the value belongs (row '${this.rows.codes[r]}', column '${this.cols.codes[c]}')`, this.where(field, t, [this.rows.codes[r]!, this.cols.codes[c]!]), numberHint(t, this.numbers.decimal) ?? 'Give a number, or choose another value field (valueField)');
     }
     this.add(r, c, v);
   }

@@ -174,7 +174,7 @@ describe('a keyed sheet: codes packed in the first column, one column per period
   });
 });
 
-describe('the decimal mark on the command line', () => {
+describe('number conventions on the command line', () => {
   it('is asked for when every number is ambiguous, and --decimal settles it', async () => {
     const dir = tempDir();
     const file = join(dir, 'ambiguous.csv');
@@ -189,6 +189,14 @@ describe('the decimal mark on the command line', () => {
     expect(good.code).toBe(0);
     const out = JSON.parse(good.stdout) as { findings: { code: string; message: string }[] };
     expect(out.findings.find((f) => f.code === 'csv-conventions')?.message ?? '').toMatch(/decimal mark '\.' \(as given\)/);
+    // A dash for zero: an error naming the cell and the option, then read as zero when given.
+    const dashed = join(dir, 'dashed.csv');
+    writeFileSync(dashed, triplets().map(([u, p, v], k) => `${p},${u},${k === 1 ? '-' : v}`).join('\n'));
+    const d1 = await run(['check', dashed]);
+    expect(d1.code).toBe(2);
+    expect(d1.stderr).toMatch(/text '-' .*If '-' means zero here, give --zero-text/);
+    const d2 = await run(['coefficients', dashed, '--zero-text', '-', '--json']);
+    expect(d2.code).toBe(0);
     const wrong = await run(['check', file, '--decimal', 'x']);
     expect(wrong.code).toBe(2);
     expect(wrong.stderr).toMatch(/--decimal must be '\.' or ','; got 'x'/);

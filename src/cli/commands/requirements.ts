@@ -23,7 +23,7 @@ import { list } from '../model-options';
 import { deliver, planOutputs } from '../output';
 import { progress } from '../progress';
 import { loadSupplyUse } from '../supply-use-input';
-import { blanksOption } from '../table-input';
+import { blanksOption, numberOptions, selectOption } from '../table-input';
 import { CAUTION_LINE, findingsText } from '../text';
 
 interface Flags extends CommonFlags {
@@ -40,6 +40,10 @@ interface Flags extends CommonFlags {
   makeValueColumn?: string;
   useValueColumn?: string;
   blanks?: string;
+  zeroText?: string[];
+  decimal?: string;
+  thousands?: string;
+  select?: string[];
 }
 
 const FORMATS = ['csv', 'tsv', 'xlsx', 'json', 'html'] as const;
@@ -68,6 +72,10 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
     .option('--use-sheet <name>', 'the sheet of the use workbook')
     .option('--make-value-column <n>', 'the field of the make long file that holds the values, counted from 1 (default: detected)')
     .option('--blanks <rule>', 'empty cells in the tables: error (default) or zero')
+    .option('--zero-text <text>', "a text that means zero in the tables' cells, such as - or .. (repeatable)", (v: string, prev: string[] | undefined) => [...(prev ?? []), v])
+    .option('--decimal <mark>', "the decimal mark of CSV or TSV files: '.' or ',' (default: seen in the numbers)")
+    .option('--thousands <separator>', "the thousands separator: one character or 'none' (default: seen in the numbers)")
+    .option('--select <field=value>', 'long files: read only the lines whose field holds this text, such as TIME_PERIOD=2020 (repeatable)', (v: string, prev: string[] | undefined) => [...(prev ?? []), v])
     .option('--use-value-column <n>', 'the field of the use long file that holds the values, counted from 1 (default: detected)');
   outputOptions(cmd, FORMATS, { locale: true });
   examples(cmd, [
@@ -103,6 +111,9 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
         ...(f.finalDemand !== undefined ? { finalDemand: list(f.finalDemand)! } : {}),
         ...(f.ignore !== undefined ? { ignore: list(f.ignore)! } : {}),
         ...(blanks ? { blanks } : {}),
+        ...(f.zeroText?.length ? { zeroTexts: f.zeroText.map((t) => t.trim()).filter(Boolean) } : {}),
+        ...numberOptions(f),
+        ...(selectOption(f.select) ? { select: selectOption(f.select)! } : {}),
       },
     );
     bar.step('deriving the requirements');
