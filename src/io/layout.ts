@@ -223,7 +223,9 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
           if (r === best.row) continue;
           let c = 0;
           while (c < Math.min(C, MAX_LEAD_COLS) && g.kind(r, c) === EMPTY) c++;
-          if (c < Math.min(C, MAX_LEAD_COLS) && /^codes?$/i.test(codeAt(g, r, c))) {
+          // ... provided its texts name rows too (a 'Code' heading over the leading columns alone,
+          // above a row of labels and a row of codes, does not make its row the codes).
+          if (c < Math.min(C, MAX_LEAD_COLS) && /^codes?$/i.test(codeAt(g, r, c)) && pairs.some((p) => p.row === r && fits(p) && p.score >= best!.score * 0.5)) {
             if (labelRow === undefined) labelRow = best.row;
             codeRow = r;
             break;
