@@ -271,6 +271,8 @@ export function guessLabourIncomeRowIn(t: Table): string | undefined {
 export const LABOUR_INCOME_WORDS: readonly RegExp[][] = [
   [/\bcompensation of employees\b/, /\bemployee compensation\b/, /\blabou?r income\b/, /\bcompensation of labou?r\b/],
   [/\bwages and salaries\b/, /\bwages\b/, /\bsalaries\b/, /\bcompensation\b/, /\bearnings\b/, /\bpayroll\b/],
+  // The national-accounts code of compensation of employees (2008 SNA), for tables with codes alone.
+  [/(^|\| )d1$/],
 ];
 
 export const HOUSEHOLD_WORDS: readonly RegExp[][] = [
@@ -282,6 +284,9 @@ export const HOUSEHOLD_WORDS: readonly RegExp[][] = [
     /\bprivate (final )?consumption\b/,
   ],
   [/\bhouseholds?\b/, /\bconsumers?\b/],
+  // National-accounts codes (2008 SNA: P3 final consumption by S14 households) and the common
+  // abbreviation HFCE, for tables with codes alone.
+  [/\bp31? s14\b/, /\bhfce\b/],
 ];
 
 /** Words that exclude a final-demand column from being the household column. */

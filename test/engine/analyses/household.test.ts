@@ -196,6 +196,21 @@ describe('household closure', () => {
     expect(guessHouseholdColumn(c)).toBeUndefined();
     expect(guessLabourIncomeRow(c)).toBe('W');
     expect(guessHousehold(c)).toBeUndefined();
+    // Codes alone, as long downloads give them: the 2008 SNA codes P3_S14 (household final
+    // consumption) and D1 (compensation of employees), and the abbreviation HFCE (common practice).
+    const e = mk(
+      [
+        ['P3_S13', 'P3_S13'],
+        ['P3_S14', 'P3_S14'],
+        ['P51G', 'P51G'],
+      ],
+      [
+        ['D1', 'D1'],
+        ['B2A3G', 'B2A3G'],
+      ],
+    );
+    expect(guessHousehold(e)).toEqual({ income: 'D1', consumption: 'P3_S14' });
+    expect(guessHouseholdColumn(mk([['HFCE', 'HFCE'], ['GGFC', 'GGFC']], [['VALU', 'VALU']]))).toBe('HFCE');
     const d = mk([['X', 'Exports']], [['GOS', 'Gross operating surplus']]);
     expect(guessHouseholdColumn(d)).toBeUndefined();
     expect(guessLabourIncomeRow(d)).toBeUndefined();
