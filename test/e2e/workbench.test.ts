@@ -3,12 +3,13 @@
  * table through the layout step to its findings, a click on a finding showing its cell; an XLSX
  * workbook; scenarios and their results; the report exported and its downloaded files read
  * back; the autosave found after a reload; a project saved and opened again; a malformed file
- * refused with its message while the work stays; starting fresh; keyboard use; and no request
- * beyond 127.0.0.1. Screenshots go to test/e2e/artifacts/.
+ * refused with its message while the work stays; starting fresh; a long file of two years read
+ * for one year through "Keep only lines where"; keyboard use; and no request beyond 127.0.0.1. Screenshots go to test/e2e/artifacts/.
  *
  * What the page shows is compared with src/io and the engine run in Node on the same files, and
  * the report's multipliers with ml-matrix 6.15.1 (an independent general-purpose library:
- * column sums of (I − A)⁻¹). The demo economy is invented and proves nothing about economics.
+ * column sums of (I − A)⁻¹). The demo economy and the two-year long file are invented and prove
+ * nothing about economics.
  */
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
@@ -294,6 +295,45 @@ describe.skipIf(!chromium)('the workbench in Chromium: files, projects and expor
     await expect.poll(() => page.locator('#mult-table tbody tr').filter({ has: page.locator('th', { hasText: '331A' }) }).first().textContent(), { timeout: 20_000 }).toContain(de.format(sums.get('331A')!));
     await screenshot(page, 'workbench-multipliers-de');
     await page.getByRole('combobox', { name: /^Number format/ }).selectOption('');
+  });
+
+  it('a long file of two years: the pair given twice leads to "Keep only lines where", and the year chosen is read', async () => {
+    // Invented: three sectors over two years, one line per flow, as statistical downloads list them.
+    const S = ['AGR', 'MAN', 'SRV'];
+    const lines = ['geo,TIME_PERIOD,prod,induse,OBS_VALUE'];
+    for (const [y, year] of ['2019', '2020'].entries()) {
+      S.forEach((r, i) => {
+        S.forEach((c, j) => lines.push(`XX,${year},${r},${c},${10 * (i + 1) + j + 100 * y}`));
+        lines.push(`XX,${year},${r},P3,${500 + 10 * i}`);
+      });
+      S.forEach((c, j) => lines.push(`XX,${year},D1,${c},${300 + 5 * j}`));
+    }
+    const path = join(work, 'two-years.csv');
+    writeFileSync(path, lines.join('\n') + '\n');
+    await nav('Open');
+    await fileInput().setInputFiles(path);
+    await page.locator('#layout-h').waitFor();
+    const alert = page.locator('.problem[role="alert"]');
+    await expect.poll(() => alert.textContent()).toMatch(/row 'AGR', column 'AGR' is given a second time/);
+    await expect.poll(() => alert.textContent()).toContain("Choose one TIME_PERIOD under 'Keep only lines where' below.");
+    await page.getByRole('button', { name: 'Add a condition' }).click();
+    const holds = page.getByRole('combobox', { name: /^Holds/ });
+    await expect.poll(() => holds.inputValue()).toBe('2020');
+    await holds.selectOption('2019');
+    await expect.poll(() => page.locator('pre.json').textContent()).toMatch(/"TIME_PERIOD": "2019"/);
+    expect(await alert.count()).toBe(0);
+    await screenshot(page, 'workbench-long-select');
+    await page.getByRole('button', { name: 'Read the table' }).click();
+    await page.locator('#checks-h').waitFor();
+    await expect.poll(header).toBe('two-years.csv');
+    // The same file and year through src/io and the engine in Node.
+    const r = await readTableFile(new Uint8Array(readFileSync(path)), { file: 'two-years.csv', long: { select: { TIME_PERIOD: '2019' } } });
+    expect(r.table.sectors.codes).toEqual(S);
+    const expected = checks(r.table);
+    expect(expected.length).toBeGreaterThan(0);
+    await expect.poll(() => page.locator('.findings li', { hasText: "only lines with TIME_PERIOD = '2019' are read" }).count()).toBe(1);
+    const shown = await page.locator('.findings li').allTextContents();
+    for (const f of expected) expect(shown.some((t) => t.includes(f.message)), f.message).toBe(true);
   });
 
   it('sent no request beyond 127.0.0.1 and raised no page error', () => {

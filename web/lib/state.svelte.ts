@@ -74,7 +74,7 @@ export interface PendingSheet {
   info: SheetInfo;
   /** The detected (and edited) mapping; null while none could be found. */
   mapping: LayoutMapping | null;
-  problem: { message: string; where?: Record<string, unknown> } | null;
+  problem: { message: string; code?: string; where?: Record<string, unknown> } | null;
   findings: Finding[];
   /** What the user set by hand, passed back to the detection on every change. */
   given: MappingInput;

@@ -31,6 +31,8 @@ import { digestHex } from '../../../src/report/sha256';
 import type { Handler } from '../context';
 import { symmetricFromSupplyUse } from './symmetric';
 import type { SymmetricKind } from './symmetric';
+import { longFields } from './long-fields';
+import type { LongFields } from './long-fields';
 
 /** How to read a sheet's cells: the sheet of a workbook, the delimiter and number conventions of a CSV. */
 export interface ReadConventions {
@@ -105,8 +107,8 @@ export interface CellWindow {
 export interface DetectResult {
   mapping?: LayoutMapping;
   findings: Finding[];
-  /** Why no layout could be found (the preview still works). */
-  problem?: { message: string; where?: Record<string, unknown> };
+  /** Why no layout could be found (the preview still works); `code` is the InputError's (such as 'duplicate-entry'). */
+  problem?: { message: string; code?: string; where?: Record<string, unknown> };
 }
 
 export interface ReadResult {
@@ -176,9 +178,10 @@ function checkedMapping(m: unknown, file: string): MappingInput | undefined {
   return parseMapping(m, `the layout of ${file}`);
 }
 
-function errorOf(e: unknown): { message: string; where?: Record<string, unknown> } {
-  const o = e as { message?: string; where?: Record<string, unknown> };
-  const out: { message: string; where?: Record<string, unknown> } = { message: String(o?.message ?? e) };
+function errorOf(e: unknown): { message: string; code?: string; where?: Record<string, unknown> } {
+  const o = e as { message?: string; code?: unknown; where?: Record<string, unknown> };
+  const out: { message: string; code?: string; where?: Record<string, unknown> } = { message: String(o?.message ?? e) };
+  if (typeof o?.code === 'string') out.code = o.code;
   if (o?.where) out.where = { ...o.where };
   return out;
 }
@@ -266,6 +269,16 @@ export const fileOps: Record<string, Handler> = {
       if (!(e instanceof InputError)) throw e;
       return { findings: [], problem: errorOf(e) };
     }
+  },
+
+  /**
+   * The fields of an open sheet read as a long file that a selection (`select` in the mapping)
+   * could keep one text of: all but the code and value fields, with their distinct texts.
+   */
+  'file-long-fields': (args: { id: string; mapping?: MappingInput }): LongFields => {
+    const s = sheetOf(args.id);
+    const mapping = checkedMapping(args.mapping, s.name) ?? {};
+    return longFields(s.grid, mapping, s.readFindings);
   },
 
   /** Read the table of an open sheet with the confirmed mapping. */
