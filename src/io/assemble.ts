@@ -138,8 +138,10 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       return r;
     }
     if (rowCodes.has(e.code)) {
-      // A code that names a row too is a sector, unless it looks like a total and the data say it is one.
+      // A code that names a row too is a sector, unless it looks like a total (or total output)
+      // and the data say it is one.
       if ((m = codeOf(e, P.totals))) return { role: 'total', why: `code matches ${m}`, alt: 'sector' };
+      if (!plain && (m = codeOf(e, P.output))) return { role: 'output', why: `code matches ${m}`, alt: 'sector' };
       return { role: 'sector', why: 'its code names a row too' };
     }
     if ((m = codeOf(e, P.totals))) {
@@ -178,6 +180,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     }
     if (colCodes.has(e.code)) {
       if ((m = codeOf(e, P.totals))) return { role: 'total', why: `code matches ${m}`, alt: 'sector' };
+      if (!plain && (m = codeOf(e, P.output))) return { role: 'output', why: `code matches ${m}`, alt: 'sector' };
       return { role: 'sector', why: 'its code names a column too' };
     }
     if ((m = codeOf(e, P.totals))) {
@@ -272,7 +275,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       const idx = (t.axis === 'row' ? block.rows : block.cols).findIndex((e) => e.code === t.code);
       const x = list[idx]!;
       const roles = t.axis === 'row' ? rowRoles : colRoles;
-      if (!t.sumOf && x.alt && !fixed(x) && roles[idx] === 'total') {
+      if (!t.sumOf && x.alt && !fixed(x) && (roles[idx] === 'total' || (roles[idx] === 'output' && x.alt === 'sector'))) {
         roles[idx] = x.alt as never;
         (t.axis === 'row' ? rowWhy : colWhy)[idx] = `${x.why}, but it is the sum of nothing before or after it, so it is read as ${x.alt}`;
         changed = true;
@@ -335,6 +338,9 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     }
     return changed;
   };
+  // Rows taken for totals by their code first (an output line can only be judged with them),
+  // then totals whose label says what else they are, then the sum of everything as output.
+  positional();
   if (demote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   if (promote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   if (positional() && promote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
@@ -371,7 +377,10 @@ export function classify(block: Block, options: AssembleOptions): Classified {
 function findSubtotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], rowWhy: string[], colWhy: string[], rr: RoleWhy<RowRole>[], cr: RoleWhy<ColumnRole>[]): void {
   const fixed = (x: RoleWhy<string>) => x.why === 'mapping' || x.why === 'role written in the sheet';
   const unit = block.decimals === undefined ? 0 : 10 ** -block.decimals;
-  const tol = (found: number, sum: number, parts: number) => unit * Math.min(0.5 * (parts + 1), 6 * Math.sqrt(parts / 12) + 0.5) + 1e-9 * Math.max(Math.abs(found), Math.abs(sum), 1);
+  // The rounding of the parts, but never more than 2% of the sum: in a small table of small
+  // whole numbers, rounding alone would let chance sums pass for subtotals.
+  const tol = (found: number, sum: number, parts: number) =>
+    Math.min(unit * Math.min(0.5 * (parts + 1), 6 * Math.sqrt(parts / 12) + 0.5), 0.02 * Math.abs(sum)) + 1e-9 * Math.max(Math.abs(found), Math.abs(sum), 1);
   const sectorCols = colRoles.map((r, j) => (r === 'sector' ? block.cols[j]!.pos : -1)).filter((p) => p >= 0);
   const sectorRows = rowRoles.map((r, i) => (r === 'sector' ? i : -1)).filter((i) => i >= 0);
   if (!sectorCols.length || !sectorRows.length) return;
@@ -424,6 +433,70 @@ function findSubtotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[]
         const [a, b] = [block.cols[Math.min(...parts)]!.code, block.cols[Math.max(...parts)]!.code];
         colWhy[t] = `${colWhy[t]}, but it is the sum of columns ${a}..${b} in every sector row, so it is read as a subtotal`;
         return;
+      }
+    }
+  });
+
+  // A value-added row (or final-demand column) that is the sum of every line before it is total
+  // output under a code no pattern knows (such as OUT): a total, which the total checks then
+  // take for output. One pass each way, keeping running sums.
+  const nc = sectorCols.length;
+  const cum = new Float64Array(nc);
+  const cumN = new Int32Array(nc);
+  let lines = 0;
+  rowRoles.forEach((r, t) => {
+    if (r !== 'sector' && !primary.includes(r)) return;
+    if (r !== 'sector' && !fixed(rr[t]!) && lines >= 2) {
+      let ok = true;
+      let nonzero = 0;
+      for (let k = 0; k < nc && ok; k++) {
+        let found = rowAt(t, k);
+        if (found !== found) found = 0;
+        if (Math.abs(found - cum[k]!) > tol(found, cum[k]!, cumN[k]!)) ok = false;
+        if (found !== 0) nonzero++;
+      }
+      if (ok && nonzero * 2 > nc) {
+        rowRoles[t] = 'total';
+        rowWhy[t] = `${rowWhy[t]}, but it is the sum of every row above it in every sector column, so it is read as a total`;
+        return;
+      }
+    }
+    lines++;
+    for (let k = 0; k < nc; k++) {
+      const v = rowAt(t, k);
+      if (v === v && v !== 0) {
+        cum[k] += v;
+        cumN[k]++;
+      }
+    }
+  });
+  const nr = sectorRows.length;
+  const cumC = new Float64Array(nr);
+  const cumCN = new Int32Array(nr);
+  let cols = 0;
+  colRoles.forEach((r, t) => {
+    if (r !== 'sector' && r !== 'final-demand') return;
+    if (r === 'final-demand' && !fixed(cr[t]!) && cols >= 2) {
+      let ok = true;
+      let nonzero = 0;
+      for (let k = 0; k < nr && ok; k++) {
+        let found = colAt(t, k);
+        if (found !== found) found = 0;
+        if (Math.abs(found - cumC[k]!) > tol(found, cumC[k]!, cumCN[k]!)) ok = false;
+        if (found !== 0) nonzero++;
+      }
+      if (ok && nonzero * 2 > nr) {
+        colRoles[t] = 'total';
+        colWhy[t] = `${colWhy[t]}, but it is the sum of every column before it in every sector row, so it is read as a total`;
+        return;
+      }
+    }
+    cols++;
+    for (let k = 0; k < nr; k++) {
+      const v = colAt(t, k);
+      if (v === v && v !== 0) {
+        cumC[k] += v;
+        cumCN[k]++;
       }
     }
   });

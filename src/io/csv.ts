@@ -86,6 +86,12 @@ function delimiterName(d: string): string {
   return d === '\t' ? 'tab' : d === ';' ? 'semicolon' : d === '|' ? 'bar' : d === ',' ? 'comma' : `'${d}'`;
 }
 
+/** The decimal mark that goes with a delimiter, for cells that cannot tell (see NumberOptions.tieBreak). */
+export function withTieBreak<T extends NumberOptions>(options: T, delimiter: Delimiter): T {
+  if (options.decimal || options.tieBreak) return options;
+  return delimiter === ',' ? { ...options, tieBreak: '.' } : options;
+}
+
 /** Builds a grid from cells, reading numbers under the conventions. */
 class CellSink {
   readonly builder: GridBuilder;
@@ -206,11 +212,20 @@ function findingsOf(c: CsvConventions, file: string): Finding[] {
   const out: Finding[] = [];
   const parts = [
     `${delimiterName(c.delimiter)}-separated${c.delimiterFrom === 'default' ? ' (no delimiter found; one column)' : ''}`,
-    `decimal mark '${c.decimal}'${c.decimalFrom === 'data' ? ` (seen in ${c.decimalEvidence})` : c.decimalFrom === 'default' ? ' (default; no cell needed it)' : ' (as given)'}`,
+    `decimal mark '${c.decimal}'${c.decimalFrom === 'data' ? ` (seen in ${c.decimalEvidence})` : c.decimalFrom === 'default' ? ' (default; no cell needed it)' : c.decimalFrom === 'delimiter' ? ' (taken from the delimiter; see the warning)' : ' (as given)'}`,
     c.thousands.length ? `thousands separator ${c.thousands.map((t) => `'${t}'`).join(', ')}` : 'no thousands separator',
     `${c.encoding}${c.bom ? ' with a byte-order mark' : ''}`,
   ];
   out.push({ code: 'csv-conventions', severity: 'note', message: `file ${file} read as ${parts.join(', ')}`, where: { file } });
+  if (c.decimalFrom === 'delimiter' && c.ambiguous) {
+    out.push({
+      code: 'decimal-from-delimiter',
+      severity: 'warning',
+      message: `file ${file}: no cell shows the decimal mark, and ${c.ambiguous.count} cell${c.ambiguous.count > 1 ? 's' : ''} such as ${c.ambiguous.cell} could be read with '.' as a thousands separator or as the decimal mark; they were read with '.' as the decimal mark, as in comma-separated files, where a decimal comma would need quotes. If '.' separates thousands in this file, give the decimal mark ','`,
+      where: { file },
+      data: { cells: c.ambiguous.count },
+    });
+  }
   if (c.encoding === 'windows-1252') {
     out.push({ code: 'encoding-guessed', severity: 'warning', message: `file ${file} is not UTF-8; it was read as Windows-1252. If letters look wrong, pass the file's encoding`, where: { file } });
   }
@@ -257,7 +272,7 @@ export function readCsv(input: Uint8Array | string, options: CsvOptions): CsvRea
     const what = quoteError.code === 'MissingQuotes' ? 'a quoted field is never closed' : 'a quoted field has text after its closing quote';
     throw new InputError('bad-quote', `file ${file}, row ${row}: ${what}`, { file, row }, 'Check the quotes on that row: a quote inside a quoted field is written twice ("")');
   }
-  const sink = new CellSink(file, options, limits.maxCells);
+  const sink = new CellSink(file, withTieBreak(options, delimiter), limits.maxCells);
   for (const r of res.data) {
     for (const f of r) sink.text(f.trim());
     sink.builder.endRow();
@@ -367,7 +382,7 @@ export class StreamingCsv {
       this.delimiterFrom = found ? 'data' : 'default';
     }
     this.delimiter = delimiter;
-    this.sink = new CellSink(file, this.options, this.limits.maxCells);
+    this.sink = new CellSink(file, withTieBreak(this.options, delimiter), this.limits.maxCells);
     const decoder = encoding === 'windows-1252' ? new TextDecoder('windows-1252') : new TextDecoder('utf-8', { fatal: true });
     this.scanner = new CsvScanner(delimiter.charCodeAt(0), new ScanGridSink(this.sink, decoder, file), file);
     this.feed(head);

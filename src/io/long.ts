@@ -19,12 +19,12 @@ import type { Axis } from '../../engine/table';
 import type { Matrix } from '../../engine/linalg/matrix';
 import { type Entry, DenseBlock } from './block';
 import { CsvScanner, ESCAPED, type FieldSink, fieldText, numberScan, plainDecimal, scanNumber } from './csv-scan';
-import { type CsvOptions, DELIMITERS, type Delimiter, detectDelimiter, whereAt } from './csv';
+import { type CsvOptions, DELIMITERS, type Delimiter, detectDelimiter, whereAt, withTieBreak } from './csv';
 import { decodeBytes, type Encoding, sniffBom } from './decode';
 import { EMPTY, type Grid, normalizeCode, normalizeLabel } from './grid';
 import { checkBytes, limitsOf, sizeText } from './limits';
 import type { LayoutMapping, MappingInput } from './mapping';
-import { analyseNumber, type NumberConventions, NumberReader, numberHint } from './numbers';
+import { analyseNumber, type DecimalMark, type NumberConventions, NumberReader, numberHint } from './numbers';
 
 export interface LongOptions extends CsvOptions {
   /** 1-based fields of the row code, the column code and the value. */
@@ -989,7 +989,7 @@ export class StreamingLong {
     if (this.encoding === 'windows-1252') this.findings.push({ code: 'encoding-guessed', severity: 'warning', message: `file ${file} is not UTF-8; it was read as Windows-1252`, where: { file } });
     const sample = new TextDecoder(this.encoding).decode(head.subarray(0, 131072)).replace(/\r\n?/g, '\n');
     this.delimiter = this.options.delimiter ?? detectDelimiter(sample, final) ?? ',';
-    this.sink = new LongSink(file, this.options, this.transcode ? 'utf-8' : this.encoding);
+    this.sink = new LongSink(file, withTieBreak(this.options, this.delimiter), this.transcode ? 'utf-8' : this.encoding);
     this.scanner = new CsvScanner(this.delimiter.charCodeAt(0), this.sink, file);
     this.feed(head);
   }
@@ -1034,6 +1034,10 @@ export function readLongGrid(grid: Grid, options: Omit<LongOptions, 'file'> & { 
     lines.push(f);
   }
   const o: LongOptions = { ...options, file };
+  // The reader of the sheet has settled the decimal mark already (from the cells, or from the
+  // delimiter for cells that could not tell): the same mark here.
+  const c = grid.conventions as { decimal?: DecimalMark; decimalFrom?: string } | undefined;
+  if (o.decimal === undefined && c?.decimal && (c.decimalFrom === 'data' || c.decimalFrom === 'delimiter')) o.decimal = c.decimal;
   const choice = chooseFields(lines.slice(0, SAMPLE_LINES), o, file);
   const reader = new LongReader(file, choice, o);
   let headerSkipped = false;

@@ -17,13 +17,22 @@ export type DecimalMark = '.' | ',';
 export interface NumberOptions {
   decimal?: DecimalMark;
   thousands?: string;
+  /**
+   * The decimal mark to take when no cell shows it and every ambiguous cell uses it (such as
+   * '48.986'): the CSV readers give '.' for unquoted cells of comma-separated files, where a
+   * decimal comma would have to be quoted. Without it (and in every other case) ambiguous cells
+   * are an error. The conventions say how many cells it decided, and the readers warn.
+   */
+  tieBreak?: DecimalMark;
 }
 
 /** The conventions a reader used, for the report (and to pass back in to override). */
 export interface NumberConventions {
   decimal: DecimalMark;
-  /** Where the decimal mark came from: given as an option, seen in the data, or the default (no cell needed it). */
-  decimalFrom: 'option' | 'data' | 'default';
+  /** Where the decimal mark came from: given as an option, seen in the data, the delimiter's usual pair (ambiguous cells only), or the default (no cell needed it). */
+  decimalFrom: 'option' | 'data' | 'delimiter' | 'default';
+  /** With decimalFrom 'delimiter': how many cells could be read either way, and the first. */
+  ambiguous?: { count: number; cell: string };
   /** The cell that showed the decimal mark, when seen in the data. */
   decimalEvidence?: string;
   /** Thousands separators seen (or allowed, when given). */
@@ -135,6 +144,7 @@ export class NumberReader {
   private evidence: { mark: DecimalMark; where: Where; text: string } | undefined;
   readonly thousandsSeen = new Set<string>();
   readonly pending: PendingCell[] = [];
+  private ambiguousCells: { count: number; cell: string } | undefined;
   static readonly PENDING = -Infinity;
 
   constructor(
@@ -222,6 +232,12 @@ export class NumberReader {
    * one). With no convention in sight, an ambiguous cell is an error.
    */
   settle(): { cell: PendingCell; value: number }[] {
+    if (this.decimal === undefined && this.pending.length && this.options.tieBreak && this.pending.every((q) => q.sep === this.options.tieBreak)) {
+      const p = this.pending[0]!;
+      this.decimal = this.options.tieBreak;
+      this.from = 'delimiter';
+      this.ambiguousCells = { count: this.pending.length, cell: `${describeCell(this.whereOf(p.row, p.col, p.text))} '${p.text}'` };
+    }
     if (this.decimal === undefined) {
       if (this.pending.length) {
         const p = this.pending[0]!;
@@ -257,6 +273,7 @@ export class NumberReader {
       thousands: this.options.thousands !== undefined ? (this.options.thousands ? [this.options.thousands] : []) : [...this.thousandsSeen],
     };
     if (this.evidence) c.decimalEvidence = `${describeCell(this.evidence.where)} '${this.evidence.text}'`;
+    if (this.ambiguousCells) c.ambiguous = { ...this.ambiguousCells };
     return c;
   }
 }

@@ -85,7 +85,7 @@ export const DEFAULT_PATTERNS: LayoutPatterns = {
     labels: ['^(grand\\s+|sub-?)?totals?\\b', '\\btotals?$', '^sum\\b'],
   },
   output: {
-    codes: ['x', 'output', 'P1'],
+    codes: ['x', 'output', 'out', 'P1'],
     labels: ['^(total\\s+)?(gross\\s+)?(industry\\s+|commodity\\s+|product\\s+|domestic\\s+)?output(\\s+at\\s+[a-z\'’]+\\s+prices)?\\s*$', '^x$'],
   },
   satellite: {

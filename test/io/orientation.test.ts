@@ -175,20 +175,28 @@ describe('a keyed sheet: codes packed in the first column, one column per period
 });
 
 describe('number conventions on the command line', () => {
-  it('is asked for when every number is ambiguous, and --decimal settles it', async () => {
+  it('is asked for when every number is ambiguous, and --decimal settles it; a comma-separated file takes the point, with a warning', async () => {
     const dir = tempDir();
     const file = join(dir, 'ambiguous.csv');
-    // Every value has three decimals and lies between 1 and 1000: '11.250' may be 11.25 or 11250.
-    const lines = triplets().map(([u, p, v]) => `${p},${u},${(v * 1.125).toFixed(3)}`);
+    // Every value has three decimals and lies between 1 and 1000: '11,250' may be 11.25 or 11250.
+    const lines = triplets().map(([u, p, v]) => `${p};${u};${(v * 1.125).toFixed(3).replace('.', ',')}`);
     writeFileSync(file, lines.join('\n'));
     const bad = await run(['check', file]);
     expect(bad.code).toBe(2);
-    expect(bad.stderr).toMatch(/could be .* \('\.' as a thousands separator\) or .* \('\.' as the decimal mark\)/);
+    expect(bad.stderr).toMatch(/could be .* \(',' as a thousands separator\) or .* \(',' as the decimal mark\)/);
     expect(bad.stderr).toMatch(/--decimal \. or --decimal ,/);
-    const good = await run(['check', file, '--decimal', '.', '--json']);
+    const good = await run(['check', file, '--decimal', ',', '--json']);
     expect(good.code).toBe(0);
     const out = JSON.parse(good.stdout) as { findings: { code: string; message: string }[] };
-    expect(out.findings.find((f) => f.code === 'csv-conventions')?.message ?? '').toMatch(/decimal mark '\.' \(as given\)/);
+    expect(out.findings.find((f) => f.code === 'csv-conventions')?.message ?? '').toMatch(/decimal mark ',' \(as given\)/);
+    // In a comma-separated file a decimal comma would need quotes: '11.250' is read as 11.25, and a warning says so.
+    const commas = join(dir, 'commas.csv');
+    writeFileSync(commas, triplets().map(([u, p, v]) => `${p},${u},${(v * 1.125).toFixed(3)}`).join('\n'));
+    const taken = await run(['multipliers', commas, '--json']);
+    expect(taken.code).toBe(0);
+    const w = (JSON.parse(taken.stdout) as { findings: { code: string; severity: string; message: string }[] }).findings.find((f) => f.code === 'decimal-from-delimiter')!;
+    expect(w.severity).toBe('warning');
+    expect(w.message).toMatch(/cells such as cell C1 '11\.250' could be read with '\.' as a thousands separator or as the decimal mark; they were read with '\.' as the decimal mark/);
     // A dash for zero: an error naming the cell and the option, then read as zero when given.
     const dashed = join(dir, 'dashed.csv');
     writeFileSync(dashed, triplets().map(([u, p, v], k) => `${p},${u},${k === 1 ? '-' : v}`).join('\n'));

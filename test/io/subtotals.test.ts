@@ -113,6 +113,27 @@ describe('codes without labels', () => {
     expect(r.findings.filter((f) => f.severity !== 'note')).toEqual([]);
   });
 
+  it('reads an output code that names a row and a column (OUT) as total output, not as a sector, when the data say so', () => {
+    // Inter-country tables close with a row and a column both coded OUT (common practice).
+    const icio: Cell[][] = [
+      ['V1', ...codes, ...fd, 'OUT'],
+      ...codes.map((c, i) => [c, ...Z[i]!, ...F[i]!, X[i]!] as Cell[]),
+      ['TLS', ...V[0]!],
+      ['VA', ...[0, 1, 2].map((j) => V[1]![j]! + V[2]![j]!)],
+      ['OUT', ...X],
+    ];
+    const r = readTable(gridFromRows(icio, 'icio.csv'));
+    expect(r.table.sectors.codes).toEqual(codes);
+    expect(r.table.valueAdded.codes).toEqual(['TLS', 'VA']);
+    expect(Array.from(r.table.x)).toEqual(X);
+    expect(r.findings.filter((f) => f.severity !== 'note')).toEqual([]);
+    // An OUT that is not the sum it should be stays a sector (here it names a row and a column).
+    const odd = icio.map((row) => [...row]);
+    odd[odd.length - 1] = ['OUT', 1, 2, 3, 4];
+    for (let i = 1; i <= 3; i++) odd[i]![odd[i]!.length - 1] = 7 * i;
+    expect(() => readTable(gridFromRows(odd, 'odd.csv'))).toThrow(/cell I7 \(row 'OUT', column 'OUT'\) is empty, in the intermediate block/);
+  });
+
   it('leaves it an unexplained total, and says so, when total output does not add up with it either', () => {
     const r = readTable(gridFromRows(body([1, 2, 3]), 'broken.csv'));
     expect(r.table.valueAdded.codes).toEqual(['VALU']);
