@@ -281,6 +281,43 @@ interface FieldChoice {
   why: string[];
 }
 
+/**
+ * A test for the lines a selection keeps, with field names looked up in the first line (the
+ * header), so that the sample the fields are decided from holds lines of the selection even when
+ * the file lists them late (a year after another). Undefined when there is no selection or a
+ * name is not in the first line (chooseFields then reports it).
+ */
+function selectionTest(first: string[] | undefined, select: Record<string, string> | undefined): ((l: string[]) => boolean) | undefined {
+  if (!select || !first) return undefined;
+  const names = first.map((t) => t.trim().toLowerCase());
+  const tests: [number, string][] = [];
+  for (const [key, value] of Object.entries(select)) {
+    const k = key.trim();
+    const field = /^\d+$/.test(k) ? Number(k) - 1 : names.indexOf(k.toLowerCase());
+    if (field < 0) return undefined;
+    tests.push([field, String(value).trim()]);
+  }
+  return (l) => tests.every(([f, v]) => (l[f] ?? '').trim() === v);
+}
+
+/** Lines for deciding the fields: the first SAMPLE_LINES, and with a selection the later lines it keeps, until it keeps SAMPLE_LINES. */
+function sampleOf(lines: string[][], options: LongOptions): string[][] {
+  const firstAt = lines.findIndex((f) => f.some((x) => x.trim() !== ''));
+  const test = selectionTest(lines[firstAt], options.select ?? options.mapping?.select);
+  const out = lines.slice(0, SAMPLE_LINES);
+  if (!test) return out;
+  // The first lines as they are (so a selection that keeps nothing can say what the field holds),
+  // then the later lines the selection keeps, up to SAMPLE_LINES of them in all.
+  let kept = out.filter((l, i) => i > firstAt && test(l)).length;
+  for (let i = SAMPLE_LINES; i < lines.length && kept < SAMPLE_LINES; i++) {
+    if (test(lines[i]!)) {
+      out.push(lines[i]!);
+      kept++;
+    }
+  }
+  return out;
+}
+
 /** Decide the fields from sample lines (texts, 0-based fields). */
 function chooseFields(sample: string[][], options: LongOptions, file: string): FieldChoice {
   const m = options.mapping ?? {};
@@ -782,8 +819,16 @@ class LongSink implements FieldSink {
     if (!this.reader) {
       const fields: string[] = [];
       for (let k = 0; k < nf; k++) fields.push(this.text(b, fs[3 * k]!, fs[3 * k + 1]!, fs[3 * k + 2]!, this.sample.length, k));
-      this.sample.push(fields);
-      if (this.sample.length >= SAMPLE_LINES) this.start();
+      // With a selection, lines it drops wait in the sample as empty lines (skipped on replay),
+      // until SAMPLE_LINES lines it keeps are in (or a million lines have gone by).
+      let kept = true;
+      if (this.keeps === undefined) {
+        // The first line with text (a header, if any) is kept and names the fields.
+        if (fields.some((x) => x.trim() !== '')) this.keeps = selectionTest(fields, this.options.select ?? this.options.mapping?.select) ?? null;
+      } else if (this.keeps) kept = this.keeps(fields);
+      this.sample.push(kept || this.sample.length < SAMPLE_LINES ? fields : []);
+      if (kept) this.kept++;
+      if (this.kept >= SAMPLE_LINES || this.sample.length >= 1_000_000) this.start();
       return;
     }
     this.buf = b;
@@ -791,6 +836,10 @@ class LongSink implements FieldSink {
     this.nf = nf;
     this.fast();
   }
+
+  /** The test of a selection on lines (null: none), decided at the first line. */
+  private keeps: ((l: string[]) => boolean) | null | undefined;
+  private kept = 0;
 
   /** Decide the fields from the sample, then replay it. */
   start(): void {
@@ -1038,7 +1087,7 @@ export function readLongGrid(grid: Grid, options: Omit<LongOptions, 'file'> & { 
   // delimiter for cells that could not tell): the same mark here.
   const c = grid.conventions as { decimal?: DecimalMark; decimalFrom?: string } | undefined;
   if (o.decimal === undefined && c?.decimal && (c.decimalFrom === 'data' || c.decimalFrom === 'delimiter')) o.decimal = c.decimal;
-  const choice = chooseFields(lines.slice(0, SAMPLE_LINES), o, file);
+  const choice = chooseFields(sampleOf(lines, o), o, file);
   const reader = new LongReader(file, choice, o);
   let headerSkipped = false;
   for (const f of lines) {

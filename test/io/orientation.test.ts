@@ -11,7 +11,8 @@
  */
 import { Matrix as MlMatrix, inverse } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
-import { readLongCsv } from '../../src/io/long';
+import { readLongCsv, readLongGrid } from '../../src/io/long';
+import { gridFromRows } from '../../src/io/grid';
 import { readTable } from '../../src/io/tables';
 import { readTableFile } from '../../src/io/open';
 import { run, tempDir } from '../cli/harness';
@@ -127,6 +128,19 @@ describe('a download of several years', () => {
     expect(Array.from(again.table.Z.data)).toEqual(Z.flat().map((v) => 2 * v));
     expect(() => readLongCsv(text, { file: 'years.csv', select: { TIME_PERIOD: '2031' } })).toThrow(/no line has TIME_PERIOD = '2031'. TIME_PERIOD holds '2019', '2020'/);
     expect(() => readLongCsv(text, { file: 'years.csv', select: { YEAR: '2020' } })).toThrow(/names field 'YEAR', which is not in its header line/);
+  });
+
+  it('reads a year that the file lists only after the lines the fields are decided from', () => {
+    // 46 × 46 pairs of 2019 first (2,116 lines, more than the 2,000 sampled), then 2020.
+    const out = ['row,col,year,value'];
+    for (const y of ['2019', '2020']) for (let i = 0; i < 46; i++) for (let j = 0; j < 46; j++) out.push(`S${i},S${j},${y},${y === '2019' ? i + j : 1000 + i - j}`);
+    const late = out.join('\n');
+    const a = readLongCsv(late, { file: 'late.csv', select: { year: '2020' } });
+    expect(a.rows.codes).toHaveLength(46);
+    expect(a.matrix.data[1]).toBe(999);
+    const g = gridFromRows(out.map((l) => l.split(',').map((x, k) => (k === 3 ? Number(x) : x))), 'late.csv');
+    const b = readLongGrid(g, { select: { year: '2020' } });
+    expect(Array.from(b.matrix.data)).toEqual(Array.from(a.matrix.data));
   });
 
   it('takes --select on the command line', async () => {
