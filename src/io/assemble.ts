@@ -439,18 +439,20 @@ function findSubtotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[]
 
   // A value-added row (or final-demand column) that is the sum of every line before it is total
   // output under a code no pattern knows (such as OUT): a total, which the total checks then
-  // take for output. One pass each way, keeping running sums.
+  // take for output. One pass each way over the rows' values, keeping running sums.
   const nc = sectorCols.length;
   const cum = new Float64Array(nc);
   const cumN = new Int32Array(nc);
   let lines = 0;
-  rowRoles.forEach((r, t) => {
-    if (r !== 'sector' && !primary.includes(r)) return;
+  for (let t = 0; t < rowRoles.length; t++) {
+    const r = rowRoles[t]!;
+    if (r !== 'sector' && !primary.includes(r)) continue;
+    const v = block.values(t);
     if (r !== 'sector' && !fixed(rr[t]!) && lines >= 2) {
       let ok = true;
       let nonzero = 0;
       for (let k = 0; k < nc && ok; k++) {
-        let found = rowAt(t, k);
+        let found = v[sectorCols[k]!]!;
         if (found !== found) found = 0;
         if (Math.abs(found - cum[k]!) > tol(found, cum[k]!, cumN[k]!)) ok = false;
         if (found !== 0) nonzero++;
@@ -458,46 +460,60 @@ function findSubtotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[]
       if (ok && nonzero * 2 > nc) {
         rowRoles[t] = 'total';
         rowWhy[t] = `${rowWhy[t]}, but it is the sum of every row above it in every sector column, so it is read as a total`;
-        return;
+        continue;
       }
     }
     lines++;
     for (let k = 0; k < nc; k++) {
-      const v = rowAt(t, k);
-      if (v === v && v !== 0) {
-        cum[k] += v;
+      const x = v[sectorCols[k]!]!;
+      if (x === x && x !== 0) {
+        cum[k] += x;
         cumN[k]++;
       }
     }
-  });
+  }
+  const fdCols = colRoles.map((r, j) => (r === 'final-demand' ? j : -1)).filter((j) => j >= 0);
+  if (!fdCols.length) return;
+  // Per sector row, the running sum across the columns before each final-demand column.
   const nr = sectorRows.length;
-  const cumC = new Float64Array(nr);
-  const cumCN = new Int32Array(nr);
-  let cols = 0;
-  colRoles.forEach((r, t) => {
-    if (r !== 'sector' && r !== 'final-demand') return;
-    if (r === 'final-demand' && !fixed(cr[t]!) && cols >= 2) {
-      let ok = true;
-      let nonzero = 0;
-      for (let k = 0; k < nr && ok; k++) {
-        let found = colAt(t, k);
-        if (found !== found) found = 0;
-        if (Math.abs(found - cumC[k]!) > tol(found, cumC[k]!, cumCN[k]!)) ok = false;
-        if (found !== 0) nonzero++;
+  const order = colRoles.map((r, j) => (r === 'sector' || r === 'final-demand' ? j : -1)).filter((j) => j >= 0);
+  const checkAt = new Map<number, number>(); // column → its place in `order`
+  order.forEach((j, q) => checkAt.set(j, q));
+  const sums2 = new Float64Array(nr * fdCols.length);
+  const counts2 = new Int32Array(nr * fdCols.length);
+  const found2 = new Float64Array(nr * fdCols.length);
+  for (let k = 0; k < nr; k++) {
+    const v = block.values(sectorRows[k]!);
+    let s2 = 0;
+    let n2 = 0;
+    let f = 0;
+    for (const j of order) {
+      const x0 = v[block.cols[j]!.pos]!;
+      const x = x0 === x0 ? x0 : 0;
+      if (colRoles[j] === 'final-demand') {
+        sums2[k * fdCols.length + f] = s2;
+        counts2[k * fdCols.length + f] = n2;
+        found2[k * fdCols.length + f] = x;
+        f++;
       }
-      if (ok && nonzero * 2 > nr) {
-        colRoles[t] = 'total';
-        colWhy[t] = `${colWhy[t]}, but it is the sum of every column before it in every sector row, so it is read as a total`;
-        return;
-      }
+      s2 += x;
+      if (x !== 0) n2++;
     }
-    cols++;
+  }
+  // Columns marked as totals here leave the running sums of those after them too high; a second
+  // such column in one table is rare, so each is judged against the sums with all before it.
+  fdCols.forEach((t, f) => {
+    if (fixed(cr[t]!) || (checkAt.get(t) ?? 0) < 2) return;
+    let nonzero = 0;
     for (let k = 0; k < nr; k++) {
-      const v = colAt(t, k);
-      if (v === v && v !== 0) {
-        cumC[k] += v;
-        cumCN[k]++;
-      }
+      const found = found2[k * fdCols.length + f]!;
+      const sum = sums2[k * fdCols.length + f]!;
+      if (Math.abs(found - sum) > tol(found, sum, counts2[k * fdCols.length + f]!)) return;
+      if (found !== 0) nonzero++;
+    }
+    if (nonzero * 2 > nr) {
+      colRoles[t] = 'total';
+      colWhy[t] = `${colWhy[t]}, but it is the sum of every column before it in every sector row, so it is read as a total`;
     }
   });
 }
