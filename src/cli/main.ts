@@ -21,6 +21,7 @@ import { register as multipliers } from './commands/multipliers';
 import { register as price } from './commands/price';
 import { register as report } from './commands/report';
 import { register as requirements } from './commands/requirements';
+import { register as uncertainty } from './commands/uncertainty';
 
 /** A command's action: it returns its exit code. */
 export type Action = (ctx: CliContext) => Promise<number>;
@@ -56,7 +57,7 @@ Examples:
   $ ripplewise requirements --make make.txt --use use.txt --kind industry-by-commodity --out total.csv
 `,
     );
-  for (const r of [check, coefficients, requirements, multipliers, impact, linkages, price, extract, report, convert, aggregate]) r(p, run);
+  for (const r of [check, coefficients, requirements, multipliers, impact, uncertainty, linkages, price, extract, report, convert, aggregate]) r(p, run);
   return p;
 }
 

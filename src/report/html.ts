@@ -8,7 +8,7 @@
  * its full value in `data-value` (the shortest text that reads back as the same number), shown
  * rounded in the report's locale; a blank (null) has an empty `data-value`.
  */
-import { groupedBars, linkageQuadrant, numberFormat, stackedBars, tornado } from './charts';
+import { groupedBars, linkageQuadrant, numberFormat, percentileBands, stackedBars, tornado } from './charts';
 import { EFFECT_COLOURS } from './charts/palette';
 import { escapeXml } from './charts/svg';
 import { cellFormatter } from './format';
@@ -221,6 +221,10 @@ function chartHtml(c: ChartSpec, format: (v: number) => string): string {
     case 'linkage-quadrant':
       svg = linkageQuadrant({ title: c.title, codes: c.codes, labels: c.labels, backward: c.backward, forward: c.forward }).svg;
       caption = `${c.title}: indices normalised to a mean of 1; key sectors are above 1 on both.`;
+      break;
+    case 'percentile-bands':
+      svg = percentileBands({ title: c.title, unit: c.unit, categories: c.categories, low: c.low, mid: c.mid, high: c.high, point: c.point, format }).svg;
+      caption = `${c.title}, in ${c.unit}: each bar spans the 5th to the 95th percentile, with the median and the table's own value marked.`;
       break;
     case 'tornado':
       svg = tornado({ title: c.title, unit: c.unit, base: c.base, items: c.items, lowLabel: `Coefficient −${c.percent} %`, highLabel: `Coefficient +${c.percent} %`, format }).svg;

@@ -44,6 +44,8 @@ import { EXTRACTION_ABOUT, EXTRACTION_RANKING_ABOUT } from '../../engine/extract
 import { GHOSH_CAUTION } from '../../engine/ghosh';
 import { CAUTIONS } from '../../engine/measures';
 import { SENSITIVITY_CAUTIONS } from '../../engine/sensitivity';
+import type { MonteCarloResult, Summary } from '../../engine/uncertainty';
+import { UNCERTAINTY_CAUTIONS } from '../../engine/uncertainty';
 
 export const REPORT_FORMAT = 'ripplewise-report';
 export const REPORT_VERSION = 1;
@@ -116,9 +118,10 @@ export type ChartSpec =
       reference?: number;
     }
   | { kind: 'linkage-quadrant'; id: string; title: string; codes: string[]; labels: string[]; backward: number[]; forward: number[] }
-  | { kind: 'tornado'; id: string; title: string; unit: string; base: number; percent: number; items: { label: string; low: number; high: number }[] };
+  | { kind: 'tornado'; id: string; title: string; unit: string; base: number; percent: number; items: { label: string; low: number; high: number }[] }
+  | { kind: 'percentile-bands'; id: string; title: string; unit: string; categories: string[]; low: number[]; mid: number[]; high: number[]; point: number[] };
 
-export type SectionKind = 'checks' | 'scenario' | 'comparison' | 'multipliers' | 'linkages' | 'tornado' | 'matrix' | 'price' | 'extraction' | 'text';
+export type SectionKind = 'checks' | 'scenario' | 'comparison' | 'multipliers' | 'linkages' | 'tornado' | 'uncertainty' | 'matrix' | 'price' | 'extraction' | 'text';
 
 /** A headline number for the summary. */
 export interface Headline {
@@ -610,6 +613,79 @@ export function tornadoSection(input: TornadoSectionInput): Section {
     charts: [{ kind: 'tornado', id: 'tornado-chart', title: `Sensitivity of ${lowerFirst(input.target)}`, unit: input.unit, base: data.value, percent: data.percent, items }],
     // The general cautions (fixed coefficients, review) are in every report already.
     cautions: SENSITIVITY_CAUTIONS.filter((c) => !/qualified economist|fixed coefficients/i.test(c)),
+  });
+}
+
+export interface UncertaintySectionInput {
+  result: MonteCarloResult;
+  sectors: Axis;
+  /** Per measure of the run (same order): the unit of its multipliers and of its impacts. */
+  units: { multiplier: string; impact: string }[];
+  /** The coefficient of variation, as a ratio. */
+  cv: number;
+}
+
+/** Monte Carlo on the coefficients: percentiles of each measure's multipliers by sector, and of each scenario's totals. */
+export function uncertaintySection(input: UncertaintySectionInput): Section {
+  const { result: r, sectors } = input;
+  const label = (code: string) => sectors.labels[sectors.codes.indexOf(code)] ?? code;
+  const cols = (unit: string, style: NumberStyle): Column[] => [
+    numberColumn('point', 'Table value', unit, style),
+    numberColumn('mean', 'Mean', unit, style),
+    numberColumn('sd', 'Standard deviation', unit, style),
+    numberColumn('p5', '5th percentile', unit, style),
+    numberColumn('p50', 'Median', unit, style),
+    numberColumn('p95', '95th percentile', unit, style),
+  ];
+  const cells = (x: Summary): Cell[] => [num(x.point), num(x.mean), num(x.sd), num(x.p5), num(x.p50), num(x.p95)];
+  const tables: ReportTable[] = [];
+  const charts: ChartSpec[] = [];
+  r.multipliers.forEach((m, k) => {
+    const meta = r.measures[k]!;
+    const unit = input.units[k]!.multiplier;
+    tables.push({
+      id: `uncertainty-${meta.code}`,
+      title: `${meta.label ?? meta.code} multipliers across the draws`,
+      about: 'Simple multipliers of the open model, one per sector, from the accepted draws.',
+      columns: [CODE, SECTOR, ...cols(unit, 'multiplier')],
+      rows: r.sectors.map((code, j) => [code, label(code), ...cells(m.bySector[j]!)]),
+      notes: [],
+    });
+    charts.push({
+      kind: 'percentile-bands',
+      id: `uncertainty-${meta.code}-chart`,
+      title: `${meta.label ?? meta.code} multipliers: 5th to 95th percentile of ${r.accepted} draws`,
+      unit,
+      categories: r.sectors.map(label),
+      low: m.bySector.map((x) => x.p5),
+      mid: m.bySector.map((x) => x.p50),
+      high: m.bySector.map((x) => x.p95),
+      point: m.bySector.map((x) => x.point),
+    });
+  });
+  if (r.scenarios.length) {
+    tables.push({
+      id: 'uncertainty-scenarios',
+      title: 'Scenario totals across the draws',
+      about: 'The total impact of each scenario on each measure (open model: direct and indirect).',
+      columns: [{ key: 'scenario', label: 'Scenario', type: 'text' }, { key: 'measure', label: 'Measure', type: 'text' }, { key: 'unit', label: 'Unit', type: 'text' }, ...cols('as given', 'amount')],
+      rows: r.scenarios.flatMap((sc) => sc.measures.map((m, k) => [sc.label, r.measures[k]!.label ?? m.measure, input.units[k]!.impact, ...cells(m.total)])),
+      notes: ['Each row is in the unit given in its Unit column.'],
+    });
+  }
+  const rejected = r.rejected.total;
+  return section({
+    id: 'uncertainty',
+    kind: 'uncertainty',
+    title: 'Uncertainty: Monte Carlo on the technical coefficients',
+    about: r.about,
+    sheet: 'Uncertainty',
+    paragraphs: [
+      `${r.errorModel} ${r.accepted} of ${r.draws} draws were accepted (seed ${r.seed}); ${rejected} broke productivity and were left out${rejected ? ` (${Object.entries(r.rejected.byReason).filter(([, n]) => n > 0).map(([why, n]) => `${n} ${why}`).join(', ')})` : ''}.`,
+    ],
+    tables,
+    charts,
+    cautions: UNCERTAINTY_CAUTIONS.filter((c) => !/qualified economist|fixed coefficients/i.test(c)),
   });
 }
 

@@ -13,7 +13,7 @@ import type { Fixtures } from './fixtures';
 import { TWO_SECTORS, writeFixtures } from './fixtures';
 import { ROOT, run } from './harness';
 
-const COMMANDS = ['check', 'coefficients', 'requirements', 'multipliers', 'impact', 'linkages', 'price', 'extract', 'report', 'convert', 'aggregate'];
+const COMMANDS = ['check', 'coefficients', 'requirements', 'multipliers', 'impact', 'uncertainty', 'linkages', 'price', 'extract', 'report', 'convert', 'aggregate'];
 let fx: Fixtures;
 
 beforeAll(async () => {
