@@ -213,7 +213,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       const x = cr[j]!;
       if (x.role === undefined && !rowCodes.has(e.code) && sectorBefore) {
         x.role = 'final-demand';
-        x.why = 'its code names no row, after the sector columns';
+        x.why = BY_POSITION_COL;
       }
       if (rowCodes.has(e.code)) sectorBefore = true;
     });
@@ -226,7 +226,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       if (colCodes.has(e.code)) sectorAbove = true;
       if (x.role === undefined && !colCodes.has(e.code) && above) {
         x.role = afterOutputRow ? 'satellite' : 'value-added';
-        x.why = afterOutputRow ? 'after the output row' : 'its code names no column, after the sector rows';
+        x.why = afterOutputRow ? 'after the output row' : BY_POSITION_ROW;
       }
     });
   }
@@ -268,17 +268,34 @@ export function classify(block: Block, options: AssembleOptions): Classified {
   // Demote unexplained totals whose label (or code) says what else they are; then promote the sum
   // of everything to output. Each change is checked again.
   const fixed = (x: RoleWhy<string>) => x.why === 'mapping' || x.why === 'role written in the sheet';
-  const demote = (): boolean => {
+  const demote = (sectorsOnly = false): boolean => {
     let changed = false;
+    const sectors: { axis: 'row' | 'column'; idx: number; was: string; why: string }[] = [];
     for (const t of totals) {
       const list = t.axis === 'row' ? rr : cr;
       const idx = (t.axis === 'row' ? block.rows : block.cols).findIndex((e) => e.code === t.code);
       const x = list[idx]!;
       const roles = t.axis === 'row' ? rowRoles : colRoles;
-      if (!t.sumOf && x.alt && !fixed(x) && (roles[idx] === 'total' || (roles[idx] === 'output' && x.alt === 'sector'))) {
+      const whys = t.axis === 'row' ? rowWhy : colWhy;
+      if (!t.sumOf && x.alt && (!sectorsOnly || (x.alt === 'sector' && roles[idx] === 'total')) && !fixed(x) && (roles[idx] === 'total' || (roles[idx] === 'output' && x.alt === 'sector'))) {
+        if (x.alt === 'sector') sectors.push({ axis: t.axis, idx, was: roles[idx]!, why: whys[idx]! });
         roles[idx] = x.alt as never;
-        (t.axis === 'row' ? rowWhy : colWhy)[idx] = `${x.why}, but it is the sum of nothing before or after it, so it is read as ${x.alt}`;
+        whys[idx] = `${x.why}, but it is the sum of nothing before or after it, so it is read as ${x.alt}`;
         changed = true;
+      }
+    }
+    // A total that names a row and a column (TINT) is the sum of nothing while a sector of a code
+    // like a total's (T) is left out of the sector block: with that sector back in, it is tried
+    // again as a total and kept so when it now adds up.
+    if (sectors.length > 1) {
+      for (const d of sectors) {
+        const roles: string[] = d.axis === 'row' ? rowRoles : colRoles;
+        const whys = d.axis === 'row' ? rowWhy : colWhy;
+        const code = (d.axis === 'row' ? block.rows : block.cols)[d.idx]!.code;
+        roles[d.idx] = d.was;
+        const t = checkTotals(block, rowRoles, colRoles, kind, findings, false).find((c) => c.axis === d.axis && c.code === code);
+        if (t?.sumOf && t.matched === t.checked) whys[d.idx] = `${d.why}; it is the sum of ${t.sumOf} once the other codes like it are sectors`;
+        else roles[d.idx] = 'sector';
       }
     }
     return changed;
@@ -338,8 +355,11 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     }
     return changed;
   };
-  // Rows taken for totals by their code first (an output line can only be judged with them),
-  // then totals whose label says what else they are, then the sum of everything as output.
+  // Totals whose codes name a row and a column (sectors whose codes look like totals, such as T)
+  // first; then rows taken for totals by their code (an output line can only be judged with
+  // them), then totals whose label says what else they are (and output codes that name a row and
+  // a column, OUT), then the sum of everything as output.
+  if (demote(true)) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   positional();
   if (demote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   if (promote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
@@ -1106,6 +1126,7 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
   const c = classify(block, options);
   const findings = [...c.findings];
   const file = block.file;
+  mismatchedSector(block, c);
   const sr = pick(block.rows, c.rowRoles, 'sector', 'sector row', file);
   const scRaw = pick(block.cols, c.colRoles, 'sector', 'sector column', file);
   const fd = pick(block.cols, c.colRoles, 'final-demand', 'final-demand', file);
@@ -1181,7 +1202,7 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
     if (want.from === 'column') colOutput(hit);
     else rowOutput(hit);
   } else if (want?.from === 'row-sums') {
-    x = rowSums(Zd, Fd, n, fd.length);
+    x = rowSums(Zd, Fd, n, fd.length, block.decimals);
     from = { from: 'row-sums' };
   } else if (outCols.length) colOutput(outCols[outCols.length - 1]!);
   else if (outRows.length) rowOutput(outRows[outRows.length - 1]!);
@@ -1200,7 +1221,7 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
     x = new Float64Array(n).fill(1);
     from = { from: 'assumed' };
   } else {
-    x = rowSums(Zd, Fd, n, fd.length);
+    x = rowSums(Zd, Fd, n, fd.length, block.decimals);
     from = { from: 'row-sums' };
     findings.push({ code: 'output-from-row-sums', severity: 'note', message: `file ${file} has no total output column or row; total output is taken as the row sums (intermediate use plus final demand)`, where: { file } });
   }
@@ -1265,17 +1286,68 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
   return { table, mapping, findings };
 }
 
+const BY_POSITION_ROW = 'its code names no column, after the sector rows';
+const BY_POSITION_COL = 'its code names no row, after the sector columns';
+
+/**
+ * A row and a column placed by position alone (value added, final demand: their codes name no
+ * column and no row) that carry the same label are one sector whose code differs between the row
+ * and the column (a typo, or another classification's code): reading them as value added and
+ * final demand would change the table without a word, so it is an error naming both cells.
+ */
+function mismatchedSector(block: Block, c: Classified): void {
+  const cols = new Map<string, number>();
+  block.cols.forEach((e, j) => {
+    if (c.colWhy[j] === BY_POSITION_COL && e.label !== e.code && /\p{L}/u.test(e.label)) cols.set(e.label.toLowerCase(), j);
+  });
+  if (!cols.size) return;
+  block.rows.forEach((e, i) => {
+    if (c.rowWhy[i] !== BY_POSITION_ROW || e.label === e.code) return;
+    const j = cols.get(e.label.toLowerCase());
+    if (j === undefined) return;
+    const col = block.cols[j]!;
+    throw new InputError(
+      'code-mismatch',
+      `file ${block.file}: row '${e.code}' (${describeEntry(e)}) and column '${col.code}' (${describeEntry(col)}) are both labelled '${e.label}' but have different codes, so neither is read as a sector`,
+      { ...(e.where ?? { file: block.file }), rowLabel: e.label, sector: e.code },
+      `Give the row and the column the same code, or set their roles in the mapping (rows: { "${e.code}": "value-added" }, columns: { "${col.code}": "final-demand" }) if they are not a sector`,
+    );
+  });
+}
+
 function scaleColumns(d: Float64Array, rows: number, cols: number, x: Float64Array): void {
   for (let i = 0; i < rows; i++) for (let j = 0; j < cols; j++) d[i * cols + j] *= x[j]!;
 }
 
-function rowSums(Z: Float64Array, F: Float64Array, n: number, k: number): Float64Array {
+/**
+ * Total output as the row sums of Z and F. Numbers of at most d decimals add up to a number of at
+ * most d decimals, so when every part has at most 6 (the block's sample says how many to expect;
+ * each value is checked), the sums are rounded to d decimals: 2164.6, not 2164.6000000000004.
+ */
+function rowSums(Z: Float64Array, F: Float64Array, n: number, k: number, decimals?: number): Float64Array {
   const x = new Float64Array(n);
   for (let i = 0; i < n; i++) {
     let s = 0;
     for (let j = 0; j < n; j++) s += Z[i * n + j]!;
     for (let j = 0; j < k; j++) s += F[i * k + j]!;
     x[i] = s;
+  }
+  let d = Math.min(Math.max(decimals ?? 0, 0), 6);
+  let p = 10 ** d;
+  for (const a of [Z, F]) {
+    for (let q = 0; q < a.length; q++) {
+      const v = a[q]!;
+      let t = v * p;
+      while (Math.abs(t - Math.round(t)) > 1e-9 * Math.abs(t) + 1e-9) {
+        if (++d > 6 || !Number.isFinite(v)) return x;
+        p = 10 ** d;
+        t = v * p;
+      }
+    }
+  }
+  for (let i = 0; i < n; i++) {
+    const t = x[i]! * p;
+    if (Math.abs(t) < 2 ** 52) x[i] = Math.round(t) / p;
   }
   return x;
 }

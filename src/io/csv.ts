@@ -49,13 +49,14 @@ export interface CsvRead {
 export const SCANNER_THRESHOLD = 2 * 1024 * 1024;
 
 /**
- * The delimiter that splits a sample of lines best: the share of lines it splits into two
- * fields or more, then the share of those with the most common number of fields; on a tie, tab,
+ * The delimiter that splits a sample of lines best: the share of lines split into the most common
+ * number of fields (two or more), then the share it splits at all, then the share of those with
+ * the most common number; on a tie, tab,
  * semicolon, bar, comma in that order (a decimal comma splits lines too, but less often).
  * Undefined when none splits any line.
  */
 export function detectDelimiter(sample: string, complete = false): Delimiter | undefined {
-  let best: { d: Delimiter; cover: number; share: number } | undefined;
+  let best: { d: Delimiter; table: number; cover: number; share: number } | undefined;
   for (const d of DELIMITERS) {
     if (!sample.includes(d)) continue;
     const res = Papa.parse<string[]>(sample, { delimiter: d, newline: '\n', quoteChar: '"', preview: 200 });
@@ -75,9 +76,13 @@ export function detectDelimiter(sample: string, complete = false): Delimiter | u
     let modeCount = 0;
     for (const [k, c] of counts) if (k >= 2 && c > modeCount) modeCount = c;
     if (!split || !lines) continue;
+    // First the share of lines with the most common number of fields: the lines of a table. Title
+    // lines with commas in their words ('EUR million, basic prices') and decimal commas split a
+    // semicolon file's lines by comma too, but into ragged numbers of fields.
+    const table = Math.round((modeCount / lines) * 20) / 20;
     const cover = Math.round((split / lines) * 20) / 20;
     const share = Math.round((modeCount / split) * 20) / 20;
-    if (!best || cover > best.cover || (cover === best.cover && share > best.share)) best = { d, cover, share };
+    if (!best || table > best.table || (table === best.table && (cover > best.cover || (cover === best.cover && share > best.share)))) best = { d, table, cover, share };
   }
   return best?.d;
 }

@@ -35,6 +35,8 @@ export interface WideStructure {
   meta: TableMeta;
   /** A 'description' row above the header (matrix files). */
   description?: string;
+  /** Codes and labels were written in one cell and split ('A01 Crops'). */
+  splitCodes?: boolean;
   block: GridBlock;
   findings: Finding[];
 }
@@ -207,10 +209,12 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
     const fits = (p: Pair) => (codeColumn === undefined || p.col === codeColumn) && (codeRow === undefined || p.row === codeRow);
     let best = pairs.find(fits);
     if (best) {
-      // A neighbouring pair in the header zone with nearly as many matches and shorter texts is
-      // the code pair (codes rather than labels); the first is then the label pair.
+      // A neighbouring pair in the header zone (another row and another column) with at least
+      // half as many matches and shorter texts is the code pair (codes rather than labels); the
+      // first is then the label pair. Lines without a code of their own (totals named by their
+      // label alone) match by label only, so the code pair may match fewer.
       const b0 = best;
-      const partners = pairs.filter((p) => fits(p) && p !== b0 && p.score >= b0.score * 0.9 && p.row < b0.firstRow && p.col < b0.firstCol && Math.abs(p.row - b0.row) <= 3 && Math.abs(p.col - b0.col) <= 3 && p.row !== b0.row && p.col !== b0.col);
+      const partners = pairs.filter((p) => fits(p) && p !== b0 && p.score >= Math.max(2, b0.score * 0.5) && p.row < b0.firstRow && p.col < b0.firstCol && Math.abs(p.row - b0.row) <= 3 && Math.abs(p.col - b0.col) <= 3 && p.row !== b0.row && p.col !== b0.col);
       const shorter = partners.filter((p) => p.meanLen < b0.meanLen).sort((a, b) => a.meanLen - b.meanLen || b.score - a.score)[0];
       if (shorter && !b0.headed) {
         best = shorter;
@@ -225,9 +229,14 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
           while (c < Math.min(C, MAX_LEAD_COLS) && g.kind(r, c) === EMPTY) c++;
           // ... provided its texts name rows too (a 'Code' heading over the leading columns alone,
           // above a row of labels and a row of codes, does not make its row the codes).
-          if (c < Math.min(C, MAX_LEAD_COLS) && /^codes?$/i.test(codeAt(g, r, c)) && pairs.some((p) => p.row === r && fits(p) && p.score >= best!.score * 0.5)) {
+          // The heading names its column: the row is the codes only if its texts name the rows of
+          // the column under the heading (in a row of labels headed 'Code' over the code column,
+          // the labels name the rows of the label column, not of the code column).
+          if (c < Math.min(C, MAX_LEAD_COLS) && /^codes?$/i.test(codeAt(g, r, c)) && pairs.some((p) => p.row === r && p.col === c && fits(p) && p.score >= best!.score * 0.5)) {
             if (labelRow === undefined) labelRow = best.row;
+            if (codeColumn === undefined && labelColumn === undefined && best.col !== c) labelColumn = best.col;
             codeRow = r;
+            if (codeColumn === undefined) codeColumn = c;
             break;
           }
         }
@@ -288,9 +297,24 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
   }
 
   const headTop = codeRow ?? -1;
-  // Body rows for the partner search: rows below the code row with a code.
+  // Body rows for the partner search: rows below the code row with a code and a number to its
+  // right (notes, headings and a units line below the header are not the body); any row with a
+  // code when none has numbers.
   const probeRows: number[] = [];
-  for (let r = headTop + 1; r < R && probeRows.length < 400; r++) if (codeColumn !== null && g.kind(r, codeColumn!) !== EMPTY) probeRows.push(r);
+  const hasNumber = (r: number) => {
+    const k = g.rows[r]!.kinds;
+    for (let c = (codeColumn ?? 0) + 1; c < k.length; c++) if (k[c] === NUMBER) return true;
+    return false;
+  };
+  for (let r = headTop + 1; r < R && probeRows.length < 400; r++) if (codeColumn !== null && g.kind(r, codeColumn!) !== EMPTY && hasNumber(r)) probeRows.push(r);
+  // The first row below the code row with a code ('Code' over the code column in a row of labels
+  // below the codes is a heading, not a code).
+  let firstCoded = -1;
+  for (let r = headTop + 1; r < R && codeColumn !== null; r++) if (g.kind(r, codeColumn) !== EMPTY && !/^codes?$/i.test(codeAt(g, r, codeColumn))) {
+    firstCoded = r;
+    break;
+  }
+  if (!probeRows.length) for (let r = headTop + 1; r < R && probeRows.length < 400; r++) if (codeColumn !== null && g.kind(r, codeColumn!) !== EMPTY) probeRows.push(r);
 
   // The first data column: the first column right of the leading ones with a header code.
   const firstCodeCol = (() => {
@@ -352,23 +376,31 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
     labelRow = null;
     if (codeRow !== null) {
       const codeCols = dataCols.filter((j) => g.kind(codeRow!, j) !== EMPTY);
+      const labelHeadings = [...Array(leadMax + 1).keys()].filter((c) => c !== codeColumn);
       let bestD = Infinity;
       for (let h = Math.max(0, codeRow - 3); h <= Math.min(R - 1, codeRow + 3); h++) {
         if (h === codeRow) continue;
-        if (h > codeRow && probeRows.length && h >= probeRows[0]! && g.kind(h, codeColumn ?? 0) !== EMPTY) continue;
+        if (h > codeRow && firstCoded >= 0 && h >= firstCoded && g.kind(h, codeColumn ?? 0) !== EMPTY) continue;
         if (/^roles?$/i.test(codeAt(g, h, codeColumn ?? 0))) continue;
         let text = 0;
         let nums = 0;
         let merged = 0;
+        const distinct = new Set<string>();
         for (const j of codeCols) {
           if (g.kind(h, j) === NUMBER) nums++;
           else if (g.text(h, j)) text++;
+          if (g.kind(h, j) !== EMPTY) distinct.add(codeAt(g, h, j));
           const m = g.mergeAt(h, j);
           if (m && m.right > m.left) merged++;
         }
-        // Labels name each column; a group header merged over several columns does not.
+        // Labels name each column; a group header merged over several columns does not, nor one
+        // written out over each column of its block ('Intermediate use' five times), nor a row of
+        // units ('EUR million' in every column): their texts repeat.
         const headedRow = codeColumn !== null && /^codes?$/i.test(codeAt(g, codeRow, codeColumn)) && h === codeRow + 1;
-        if (codeCols.length && text + nums >= codeCols.length * 0.5 && (nums <= text || headedRow) && merged < 2) {
+        // (Under a code row headed 'code | label', as the writers write it, the labels may repeat.)
+        const labelHeaded = headedRow && labelHeadings.some((c) => /^(labels?|names?|descriptions?)$/i.test(codeAt(g, codeRow!, c)));
+        const repeats = text + nums >= 3 && (distinct.size === 1 || (!labelHeaded && distinct.size < (text + nums) * 0.75));
+        if (codeCols.length && text + nums >= codeCols.length * 0.5 && (nums <= text || headedRow) && merged < 2 && !repeats) {
           const d = Math.abs(h - codeRow);
           if (d < bestD) {
             bestD = d;
@@ -521,6 +553,9 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
     colEntries.push(ce);
   }
 
+  // Code and label in one cell ('A01 Crops'), in rows and header alike: split into the two.
+  const split = splitCodes(rowEntries, colEntries, labelColumn === null && codeColumn !== null, labelRow === null && codeRow !== null, mapping.splitCodes);
+
   // Titles, group headers, key/value rows above the header.
   const titleRows: number[] = [];
   const headerRows: number[] = [];
@@ -581,7 +616,68 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
     findings,
   };
   if (description !== undefined) out.description = description;
+  if (split) out.splitCodes = true;
   return out;
+}
+
+/** A code written before its label in one cell: a code-like word (capitals, digits, '.', '-', '_', '/'), a space, a label with a letter. */
+const CODE_AND_LABEL = /^([A-Z0-9][A-Z0-9._\-\u2013/]{0,11})(?:\s+[-\u2013\u2014:]\s+|:\s+|\s+)([\p{L}\p{N}(].*\p{L}.*)$/u;
+
+/**
+ * Code and label written in one cell ('A01 Crops', 'P3_S14 Final consumption of households'),
+ * with no label column (rows) or label row (columns) beside them. The cells are split when most
+ * texts that name both a row and a column (the sectors; at least two) start with a code-like
+ * word followed by a label ('A01 Crops', 'A01 - Crops', 'A01: Crops'), and those words are
+ * distinct: then the words are the codes. The other lines of a split axis are split too where
+ * they have that shape with a label that starts with a capital or a digit ('TINT Total
+ * intermediate use', not 'NPISH final consumption'), unless a code would come out twice; lines
+ * without it keep their text as code and label. `given` (the mapping's splitCodes) decides
+ * instead of the sectors. Returns whether anything was split.
+ */
+function splitCodes(rows: Entry[], cols: Entry[], rowsAlone: boolean, colsAlone: boolean, given: boolean | undefined): boolean {
+  if (given === false || (!rowsAlone && !colsAlone)) return false;
+  const cut = (e: Entry) => (e.label === e.code ? CODE_AND_LABEL.exec(e.code) : null);
+  const colKeys = new Set(cols.map((e) => e.code));
+  const shared = new Set(rows.filter((e) => colKeys.has(e.code)).map((e) => e.code));
+  if (given !== true) {
+    const heads = new Set<string>();
+    for (const e of rows) {
+      if (!shared.has(e.code)) continue;
+      const m = cut(e);
+      if (!m) continue;
+      if (heads.has(m[1]!)) return false;
+      heads.add(m[1]!);
+    }
+    // Most of them: a total named alike in a row and a column ('Total output') has no code.
+    if (heads.size < 2 || heads.size * 2 <= shared.size) return false;
+  }
+  let any = false;
+  for (const [list, alone] of [
+    [rows, rowsAlone],
+    [cols, colsAlone],
+  ] as const) {
+    if (!alone) continue;
+    const parts = list.map((e) => {
+      const m = cut(e);
+      if (!m) return undefined;
+      if (!shared.has(e.code) && !/^[\p{Lu}\p{N}]/u.test(m[2]!)) return undefined;
+      return { code: m[1]!, label: m[2]!.trim() };
+    });
+    // No code may come out twice, nor as the whole text of another line.
+    const keys = new Map<string, number>();
+    list.forEach((e, i) => {
+      const k = parts[i]?.code ?? e.code;
+      keys.set(k, (keys.get(k) ?? 0) + 1);
+    });
+    list.forEach((e, i) => {
+      const p = parts[i];
+      if (!p || keys.get(p.code)! > 1) return;
+      e.code = p.code;
+      e.label = p.label;
+      any = true;
+    });
+  }
+  return any;
 }
 
 function rowText(g: Grid, r: number): string {

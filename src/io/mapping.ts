@@ -74,6 +74,11 @@ export interface LayoutMapping {
   unitColumn?: number | null;
   codeRow?: number | null;
   labelRow?: number | null;
+  /**
+   * Wide sheets: codes and labels written in one cell ('A01 Crops') are split into a code and a
+   * label (reported as true when the reader did so); false keeps each text whole.
+   */
+  splitCodes?: boolean;
   /** Long files: the 1-based fields of the row code, the column code and the value, and the header line if any. */
   rowCodeField?: number;
   columnCodeField?: number;
@@ -202,6 +207,7 @@ export function parseMapping(input: string | unknown, file = 'mapping'): Mapping
   if (m.select !== undefined && !(typeof m.select === 'object' && m.select !== null && !Array.isArray(m.select) && Object.values(m.select).every((v) => typeof v === 'string'))) {
     throw new InputError('bad-mapping', `file ${file}: select must be an object of field names (or numbers) and the texts to keep, such as { "TIME_PERIOD": "2020" }`, { file });
   }
+  if (m.splitCodes !== undefined && typeof m.splitCodes !== 'boolean') throw new InputError('bad-mapping', `file ${file}: splitCodes must be true or false`, { file });
   if (m.blanks !== undefined && m.blanks !== 'error' && m.blanks !== 'zero') throw new InputError('bad-mapping', `file ${file}: blanks must be 'error' or 'zero'`, { file });
   if (m.zeroTexts !== undefined && !(Array.isArray(m.zeroTexts) && m.zeroTexts.every((x) => typeof x === 'string'))) {
     throw new InputError('bad-mapping', `file ${file}: zeroTexts must be a list of texts`, { file });

@@ -68,6 +68,7 @@ function structureFields(s: WideStructure): Partial<LayoutMapping> {
     titleRows: s.titleRows.map((r) => r + 1),
     headerRows: s.headerRows.map((r) => r + 1),
     noteRows: s.noteRows.map((r) => r + 1),
+    ...(s.splitCodes ? { splitCodes: true } : {}),
   };
 }
 

@@ -75,7 +75,8 @@ function numericRows(w: import('exceljs').Worksheet): number {
     w.getRow(r).eachCell((cell) => {
       const v = cell.value as unknown;
       const x = v && typeof v === 'object' && 'result' in (v as object) ? (v as { result: unknown }).result : v;
-      if (typeof x === 'number' || (typeof x === 'string' && /^\s*-?[\d.,]+\s*$/.test(x) && /\d/.test(x))) nums++;
+      // Numbers stored as text count too, with any thousands separator ('1 234,5', '1’234').
+      if (typeof x === 'number' || (typeof x === 'string' && /^\s*[-+\u2212]?\d[\d.,'\u2019 \u00a0\u202f\u2009]*\s*$/.test(x))) nums++;
     });
     if (nums >= 2) rows++;
   }
