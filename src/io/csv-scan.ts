@@ -297,7 +297,8 @@ export function scanNumber(b: Uint8Array, s: number, e: number, dec: number): nu
     let t = '';
     for (let i = s; i < e; i++) t += String.fromCharCode(b[i] === dec ? 46 : b[i]!);
     v = Number(t);
-    return v;
+    // Beyond the range of doubles ('1e400'): not a number, so that the cell is read as text and reported.
+    return Number.isFinite(v) ? v : NaN;
   }
   return neg ? -v : v;
 }

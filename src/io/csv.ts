@@ -49,9 +49,9 @@ export interface CsvRead {
 export const SCANNER_THRESHOLD = 2 * 1024 * 1024;
 
 /**
- * The delimiter that splits a sample of lines best: the share of lines split into the most common
- * number of fields (two or more), then the share it splits at all, then the share of those with
- * the most common number; on a tie, tab,
+ * The delimiter that splits a sample of lines best: the share of lines it splits into two fields
+ * or more plus the share split into the most common number of fields, then the first share, then
+ * the share of split lines with the most common number; on a tie, tab,
  * semicolon, bar, comma in that order (a decimal comma splits lines too, but less often).
  * Undefined when none splits any line.
  */
@@ -76,13 +76,20 @@ export function detectDelimiter(sample: string, complete = false): Delimiter | u
     let modeCount = 0;
     for (const [k, c] of counts) if (k >= 2 && c > modeCount) modeCount = c;
     if (!split || !lines) continue;
-    // First the share of lines with the most common number of fields: the lines of a table. Title
-    // lines with commas in their words ('EUR million, basic prices') and decimal commas split a
-    // semicolon file's lines by comma too, but into ragged numbers of fields.
-    const table = Math.round((modeCount / lines) * 20) / 20;
+    // Shares of the lines of text the records came from: a quote opened by a delimiter that is not
+    // the file's ('"1,5"' read with ';' is fine, read with ',' in a ';' file it can run on for
+    // lines) folds many lines into a few records, which must not pass for a consistent split.
+    let physical = 0;
+    for (const l of sample.slice(0, res.meta.cursor ?? sample.length).split('\n')) if (l.trim()) physical++;
+    lines = Math.max(lines, physical);
+    // The share of lines split, plus the share split into the most common number of fields (the
+    // lines of a table): title lines with commas in their words ('EUR million, basic prices') and
+    // decimal commas split a semicolon file's lines by comma too, but into ragged numbers of
+    // fields; a file whose rows differ in length is still split on every line by its delimiter.
     const cover = Math.round((split / lines) * 20) / 20;
+    const table = cover + Math.round((modeCount / lines) * 20) / 20;
     const share = Math.round((modeCount / split) * 20) / 20;
-    if (!best || table > best.table || (table === best.table && (cover > best.cover || (cover === best.cover && share > best.share)))) best = { d, table, cover, share };
+    if (!best || table > best.table + 1e-9 || (Math.abs(table - best.table) <= 1e-9 && (cover > best.cover || (cover === best.cover && share > best.share)))) best = { d, table, cover, share };
   }
   return best?.d;
 }

@@ -52,8 +52,15 @@ const SPACE_SEPS = new Set([' ', '\u00a0', '\u202f', '\u2009', "'", '\u2019']);
 const NUMERIC_BODY = /^[0-9.,'\u2019 \u00a0\u202f\u2009]+$/;
 const EXPONENT = /^(.*[0-9.])([eE][+-]?[0-9]+)$/;
 
-/** Analyse a trimmed text; undefined when it is not a number in any convention. */
+/** Analyse a trimmed text; undefined when it is not a number in any convention (or only beyond the range of doubles, such as '1e400'). */
 export function analyseNumber(raw: string): Analysis | undefined {
+  const a = analyse(raw);
+  if (!a) return undefined;
+  if (a.k === 'ambiguous') return Number.isFinite(a.asDecimal) && Number.isFinite(a.asThousands) ? a : undefined;
+  return Number.isFinite(a.v) ? a : undefined;
+}
+
+function analyse(raw: string): Analysis | undefined {
   let s = raw;
   let sign = 1;
   const c0 = s.charCodeAt(0);
@@ -300,6 +307,7 @@ export function numberHint(text: string, decimal: DecimalMark | undefined): stri
   if (/%\s*$/.test(t)) return 'Percentages are not read as numbers; give the value itself';
   if (/^[-+]?[$€£¥]|[$€£¥]$/.test(t)) return 'Currency symbols are not read; give the number alone (the currency goes in the table\'s metadata)';
   if (/^[-+]?[0-9][0-9.,]*[*a-zA-Z]+$/.test(t)) return 'A footnote mark or letter follows the number; remove it';
+  if (/^[-+\u2212]?[0-9.,]+[eE][-+]?[0-9]+$/.test(t) && !Number.isFinite(Number(t.replace(',', '.').replace('\u2212', '-')))) return 'The number is beyond the range of double precision (about 1.8e308); check the cell';
   if (/^(n\/?a|na|\.\.|\.|-|–|—|x|nil|null|none|\?)$/i.test(t)) return `If '${t}' means zero here, pass it in zeroTexts; if it means unknown, fill in a value`;
   const a = analyseNumber(t);
   if (a && decimal) return `It does not follow the decimal mark '${decimal}' used in this file; set decimal: '${decimal === '.' ? ',' : '.'}' if that is the file's convention`;

@@ -8,8 +8,10 @@
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../engine/errors';
+import type { Table } from '../../engine/table';
 import { gridSignature, readCsv, readCsvStream } from '../../src/io/csv';
 import { readTable } from '../../src/io/tables';
+import { writeTableCsv } from '../../src/io/write';
 import { readLongCsv, readLongGrid } from '../../src/io/long';
 
 /** FUZZ_SCALE=10 runs ten times as many cases (for a longer search; the default keeps the file fast). */
@@ -76,6 +78,43 @@ describe('delimiters and decimal conventions (common practice of statistical age
     const later = readCsv('code;A;B\nA;1,234;5\nB;0,5;6\n', { file: 'b.csv' });
     expect(later.grid.num(1, 1)).toBe(1.234);
     expect(later.conventions.decimalEvidence).toContain('cell B3');
+  });
+
+  it('a semicolon file with commas in its titles and decimal commas is split by semicolons (invented lines)', () => {
+    const text = 'Input-output table, 2019, EUR million\nBasic prices, invented data\n\ncode;A;B;F\nA;1,5;2,25;10\nB;3;4,75;12,5\nV;5;7\n';
+    const r = both(text);
+    expect(r.conventions).toMatchObject({ delimiter: ';', decimal: ',' });
+    expect(r.grid.num(4, 1)).toBe(1.5);
+  });
+
+  it("a quote that runs on for lines under the wrong delimiter does not decide it (a title '\",' in a semicolon file)", () => {
+    // Found by the round trip of write.test.ts: a title '",' and a value-added code ',0', written with ';'.
+    const z = (n: number) => new Float64Array(n);
+    const t: Table = {
+      sectors: { codes: ['A', 'B', 'C'], labels: ['a', 'b', 'c'] },
+      Z: { rows: 3, cols: 3, data: z(9) },
+      finalDemand: { codes: [], labels: [] },
+      F: { rows: 3, cols: 0, data: z(0) },
+      valueAdded: { codes: [',0'], labels: ['v'] },
+      V: { rows: 1, cols: 3, data: z(3) },
+      x: Float64Array.from([1, 1, 1]),
+      satellites: [
+        { code: 'E', label: 'e', unit: 'jobs', values: Float64Array.from([0, 1.5e-3, 0]) },
+        { code: 'G', label: 'g', unit: 't', values: Float64Array.from([0, 0, 1.25e-2]) },
+      ],
+      meta: { currency: 'EUR', scale: 1e6, scaleLabel: 'millions', title: '",' },
+    };
+    const r = both(writeTableCsv(t, { delimiter: ';', decimal: ',' }));
+    expect(r.conventions.delimiter).toBe(';');
+    expect(readTable(r.grid).table.valueAdded.codes).toEqual([',0']);
+  });
+
+  it('a number beyond the range of doubles (1e400) is text, reported where a number belongs', () => {
+    for (const t of ['1e400', '-1e400', '1,5e999']) {
+      const r = both(`code;A;B\nA;${t};1\nB;1;1\n`, { decimal: ',' });
+      expect(r.grid.kind(1, 1)).toBe(2);
+      expect(() => readTable(r.grid)).toThrow(/cell B2 .*text '.*e[0-9]+' where a number belongs.*beyond the range of double precision/);
+    }
   });
 
   it('decimal marks that disagree are an error naming both cells', () => {
