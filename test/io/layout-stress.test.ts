@@ -1,12 +1,15 @@
 /**
- * A stress test of the wide-table readers: many sheet layouts, generated here, of three small
+ * A stress test of the wide-table readers: many sheet layouts, generated here, of four small
  * known tables, each of which readTableFile must give back exactly (codes, labels where the
- * sheet has them, Z, F, V and x), with no warning or error among its findings (notes are fine).
+ * sheet has them, Z, F, V and x), with no warning or error among its findings (notes are fine),
+ * and again when the mapping it reported is passed back in.
  *
- * The tables are invented data: 3, 5 and 8 sectors, balanced by construction (every row of Z
- * plus F sums to x, every column of Z plus V sums to x), whole numbers in two of them and one
- * decimal in the other, with values into the millions in one, a negative change in inventories
- * and zero cells. A variant combines, drawn by a seeded generator (and a fixed list first):
+ * The tables are invented data: 3, 4, 5 and 8 sectors, balanced by construction (every row of Z
+ * plus F sums to x, every column of Z plus V sums to x), whole numbers in three of them and one
+ * decimal in the other, values into the millions in one and in the thousands (every sum below
+ * a million) in another, a negative change in inventories, zero cells, numeric sector codes
+ * ('01') and codes that look like other things (F, D35, T beside totals coded TINT). A variant
+ * combines, drawn by a seeded generator (and a fixed list first):
  *
  * - codes and labels: a code and a label column (either order), labels only, codes only, or
  *   code and label in one cell ('A01 Crops', in the rows and in the header);
@@ -15,7 +18,7 @@
  *   blocks ('Intermediate use', 'Final uses': merged in workbooks, written once or repeated in
  *   text files);
  * - title rows above, blank rows between blocks, a blank column, section headings inside
- *   ('Primary inputs'), notes and a 'Source:' line below, footnote marks in labels ('Exports (a)');
+ *   ('Primary inputs'), notes and a 'Source:' line below, footnote marks in labels ('Exports (a)', 'Exports 1)', 'Exports *');
  * - totals: total intermediate, total final demand and total output columns, total intermediate
  *   and total output rows, a 'Gross value added' subtotal row and a 'Final consumption
  *   expenditure' subtotal column before or after their parts, with T-prefixed codes,
@@ -24,8 +27,9 @@
  * - final-demand and value-added codes: letters (F1, V1), national-accounts codes (P3_S14, P51G,
  *   P6, D1, D29X39, B2A3G) or none;
  * - numbers: plain, with thousands separators ('1,234.5' quoted in comma files, '1.234,5' in
- *   semicolon files, '1 234,5'), in comma, semicolon and tab files and in XLSX workbooks (zeros
- *   as empty cells, or written).
+ *   semicolon files, '1 234,5' with a space or a non-breaking space), in comma, semicolon and
+ *   tab files and in XLSX workbooks (zeros as empty cells or written; numbers as number cells,
+ *   or as text with separators).
  *
  * Whole numbers written with one thousands separator ('1.234') and nothing else in the file
  * to show the decimal mark are truly ambiguous: those variants must fail with an error that
@@ -97,6 +101,18 @@ for (const b of BASES) for (const f of FIXED) variants.push(settle({ ...DEFAULT,
 for (let s = 1; s <= RANDOM; s++) variants.push(randomVariant(1000 + s));
 
 describe(`${variants.length} wide layouts of four known tables (invented data)`, () => {
+  it('the known tables balance: rows of Z and F and columns of Z and V sum to x', () => {
+    for (const b of BASES) {
+      const n = b.sectors.length;
+      for (let j = 0; j < n; j++) {
+        const row = b.Z[j]!.reduce((a, z) => a + z, 0) + b.F[j]!.reduce((a, f) => a + f, 0);
+        const col = b.Z.reduce((a, r) => a + r[j]!, 0) + b.V.reduce((a, r) => a + r[j]!, 0);
+        expect(col, `${b.name} column ${j}`).toBe(row);
+        for (const r of b.V) expect(r[j]!, `${b.name} value added`).toBeGreaterThan(0);
+      }
+    }
+  });
+
   it('the sample holds workbooks, every lead, and variants whose decimal mark is undecided', () => {
     expect(variants.filter((v) => v.format === 'xlsx').length).toBeGreaterThan(20);
     for (const lead of ['code-label', 'label-code', 'labels', 'codes', 'combined']) expect(variants.filter((v) => v.lead === lead).length).toBeGreaterThan(20);

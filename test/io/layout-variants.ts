@@ -1,5 +1,5 @@
 /**
- * The layout variants of the stress test (layout-stress.test.ts): three small known tables
+ * The layout variants of the stress test (layout-stress.test.ts): four small known tables
  * (invented data, balanced by construction) and the sheets that lay them out, as CSV text or as
  * an XLSX workbook, with the table each must read as.
  */
@@ -212,6 +212,8 @@ export interface Variant {
   sections: boolean;
   notes: boolean;
   footnotes: boolean;
+  /** Code and label in one cell joined by ' ', ' - ' or ': '. */
+  joiner: number;
   /** How a footnote is marked: '(a)', '1)' or '*'. */
   footStyle: number;
   intCol: boolean;
@@ -248,6 +250,7 @@ export const DEFAULT: Omit<Variant, 'base'> = {
   sections: false,
   notes: false,
   footnotes: false,
+  joiner: 0,
   footStyle: 0,
   intCol: false,
   fdCol: false,
@@ -276,6 +279,9 @@ export function settle(v: Variant): Variant {
     if (o.totalCodes === 'none') o.totalCodes = 'T';
   }
   if (o.base.fd.filter((f) => f.consumption).length < 2) o.fc = 'none';
+  if (o.lead !== 'combined') o.joiner = 0;
+  if (!o.footnotes) o.footStyle = 0;
+  if (!o.heading) o.headingLow = false;
   if (o.format !== 'xlsx') {
     o.zerosEmpty = false;
     o.contents = false;
@@ -322,6 +328,7 @@ export function randomVariant(seed: number): Variant {
     sections: b(),
     notes: b(),
     footnotes: b(),
+    joiner: r() < 0.6 ? 0 : Math.floor(r() * 3),
     footStyle: Math.floor(r() * 3),
     intCol: b(),
     fdCol: b(),
@@ -368,6 +375,7 @@ export interface Sheet {
   expected: Table;
 }
 
+const JOIN = [' ', ' - ', ': '];
 const OUT_COL_LABELS = ['Total output', 'Total use', 'Output at basic prices', 'Total'];
 const OUT_ROW_LABELS = ['Total output', 'Output at basic prices', 'Total inputs', 'Total'];
 
@@ -449,7 +457,7 @@ export function build(v: Variant): Sheet {
       case 'codes':
         return [l.kind === 'heading' || l.kind === 'blank' ? label : code];
       case 'combined':
-        return [code && label ? `${code} ${label}` : label ?? code];
+        return [code && label ? `${code}${JOIN[v.joiner]}${label}` : label ?? code];
     }
   };
   const leadWidth = v.lead === 'code-label' || v.lead === 'label-code' ? 2 : 1;
@@ -462,7 +470,7 @@ export function build(v: Variant): Sheet {
         return ['Description', 'Code'];
       case 'labels':
       case 'combined':
-        return ['Products'];
+        return [v.headingLow ? 'Description' : 'Products'];
       case 'codes':
         return ['Code'];
     }
@@ -501,7 +509,7 @@ export function build(v: Variant): Sheet {
     else out.push([...headingCells(), ...top], [...blankLead(), ...below]);
   } else if (v.lead === 'labels') out.push([...headingCells(), ...cols.map((c) => c.label || null)]);
   else if (v.lead === 'codes') out.push([...headingCells(), ...cols.map((c) => c.code || null)]);
-  else out.push([...headingCells(), ...cols.map((c) => (c.kind === 'blank' ? null : c.code && c.label ? `${c.code} ${c.label}` : c.label))]);
+  else out.push([...headingCells(), ...cols.map((c) => (c.kind === 'blank' ? null : c.code && c.label ? `${c.code}${JOIN[v.joiner]}${c.label}` : c.label))]);
   if (v.units === 'lead') out.push(['EUR million']);
   if (v.units === 'across') out.push([...blankLead(), ...cols.map((c) => (c.kind === 'blank' ? null : 'EUR million'))]);
   if (v.blankRows) out.push([]);
