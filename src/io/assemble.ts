@@ -1296,13 +1296,24 @@ const BY_POSITION_COL = 'its code names no row, after the sector columns';
  * final demand would change the table without a word, so it is an error naming both cells.
  */
 function mismatchedSector(block: Block, c: Classified): void {
+  // Only lines where a sector could stand: among the sector lines or right after them, with no
+  // other line between (a row and a column of 'Statistical discrepancy' at the ends of the
+  // value-added and final-demand blocks are not a sector).
+  const nearSectors = (roles: readonly string[], i: number): boolean => {
+    for (let u = i + 1; u < roles.length; u++) if (roles[u] === 'sector') return true;
+    for (let u = i - 1; u >= 0; u--) {
+      if (roles[u] === 'sector') return true;
+      if (roles[u] !== 'ignore') return false;
+    }
+    return false;
+  };
   const cols = new Map<string, number>();
   block.cols.forEach((e, j) => {
-    if (c.colWhy[j] === BY_POSITION_COL && e.label !== e.code && /\p{L}/u.test(e.label)) cols.set(e.label.toLowerCase(), j);
+    if (c.colWhy[j] === BY_POSITION_COL && e.label !== e.code && /\p{L}/u.test(e.label) && nearSectors(c.colRoles, j)) cols.set(e.label.toLowerCase(), j);
   });
   if (!cols.size) return;
   block.rows.forEach((e, i) => {
-    if (c.rowWhy[i] !== BY_POSITION_ROW || e.label === e.code) return;
+    if (c.rowWhy[i] !== BY_POSITION_ROW || e.label === e.code || !nearSectors(c.rowRoles, i)) return;
     const j = cols.get(e.label.toLowerCase());
     if (j === undefined) return;
     const col = block.cols[j]!;

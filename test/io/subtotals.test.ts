@@ -140,3 +140,23 @@ describe('codes without labels', () => {
     expect(r.findings.some((f) => f.code === 'total-unexplained' && /TXS_INT_FNL/.test(f.message))).toBe(true);
   });
 });
+
+describe('a row and a column of one label at the ends of their blocks', () => {
+  it("are value added and final demand ('Statistical discrepancy'), not a sector with two codes", () => {
+    // Common practice: some tables close both the final-demand and the value-added blocks with a
+    // statistical discrepancy. The numbers are invented; the discrepancies are zero-sum per line.
+    const rows: Cell[][] = [
+      ['code', 'label', 'A', 'B', 'HH', 'SDF'],
+      ['', '', 'Alpha', 'Beta', 'Households', 'Statistical discrepancy'],
+      ['A', 'Alpha', 10, 20, 71, -1],
+      ['B', 'Beta', 30, 40, 129, 1],
+      ['W', 'Wages', 55, 142, '', ''],
+      ['SDV', 'Statistical discrepancy', 5, -2, '', ''],
+    ];
+    const r = readTable(gridFromRows(rows, 'sd.csv'), { blanks: 'zero' });
+    expect(r.table.sectors.codes).toEqual(['A', 'B']);
+    expect(r.table.finalDemand.codes).toEqual(['HH', 'SDF']);
+    expect(r.table.valueAdded.codes).toEqual(['W', 'SDV']);
+    expect(Array.from(r.table.x)).toEqual([100, 200]);
+  });
+});
