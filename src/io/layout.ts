@@ -636,7 +636,13 @@ const CODE_AND_LABEL = /^([A-Z0-9][A-Z0-9._\-\u2013/]{0,11})(?:\s+[-\u2013\u2014
  */
 function splitCodes(rows: Entry[], cols: Entry[], rowsAlone: boolean, colsAlone: boolean, given: boolean | undefined): boolean {
   if (given === false || (!rowsAlone && !colsAlone)) return false;
-  const cut = (e: Entry) => (e.label === e.code ? CODE_AND_LABEL.exec(e.code) : null);
+  const cut = (e: Entry) => {
+    const m = e.label === e.code ? CODE_AND_LABEL.exec(e.code) : null;
+    // 'FOOD PRODUCTS' is a label in capitals, not the code FOOD: a code of letters alone needs a
+    // label with small letters after it.
+    if (m && !/[\d._\-\u2013/]/.test(m[1]!) && !/\p{Ll}/u.test(m[2]!)) return null;
+    return m;
+  };
   const colKeys = new Set(cols.map((e) => e.code));
   const shared = new Set(rows.filter((e) => colKeys.has(e.code)).map((e) => e.code));
   if (given !== true) {

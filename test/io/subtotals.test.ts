@@ -160,3 +160,22 @@ describe('a row and a column of one label at the ends of their blocks', () => {
     expect(Array.from(r.table.x)).toEqual([100, 200]);
   });
 });
+
+describe('labels in capitals', () => {
+  it("are not split into a code and a label ('FOOD PRODUCTS' is not code FOOD), while 'A01 Crops' is", () => {
+    // Older tables write labels in capitals (common practice); the numbers are invented.
+    const caps = (names: string[]): Cell[][] => [
+      ['', ...names, 'HOUSEHOLDS', 'TOTAL OUTPUT'],
+      [names[0]!, 10, 20, 5, 65, 100],
+      [names[1]!, 15, 40, 25, 120, 200],
+      [names[2]!, 5, 30, 50, 115, 200],
+      ['WAGES AND SALARIES', 70, 110, 120],
+      ['TOTAL OUTPUT', 100, 200, 200],
+    ];
+    const a = readTable(gridFromRows(caps(['FOOD PRODUCTS', 'WOOD AND PAPER', 'IRON AND STEEL']), 'caps.csv'), { blanks: 'zero' });
+    expect(a.table.sectors.codes).toEqual(['FOOD PRODUCTS', 'WOOD AND PAPER', 'IRON AND STEEL']);
+    const b = readTable(gridFromRows(caps(['A01 Crops', 'C10 Food', 'F41 Building']), 'coded.csv'), { blanks: 'zero' });
+    expect(b.table.sectors.codes).toEqual(['A01', 'C10', 'F41']);
+    expect(b.table.sectors.labels).toEqual(['Crops', 'Food', 'Building']);
+  });
+});
