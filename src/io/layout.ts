@@ -139,7 +139,15 @@ function matchPairs(g: Grid): Pair[] {
         if (below < firstRow) firstRow = below;
         if (j < firstCol) firstCol = j;
       }
-      if (seen.size) pairs.push({ row: h, col: c, score: seen.size, textScore: text, meanLen: len / seen.size, firstRow, firstCol, headed: /^codes?$/i.test(codeAt(g, h, c)) });
+      if (!seen.size) continue;
+      if (text === 0) {
+        // Numbers alone: whole-number codes (1100, 2300) match across most of a header row; a
+        // few values that happen to appear in a data row and a data column do not.
+        let numbers = 0;
+        for (let j = c + 1; j < C; j++) if (g.kind(h, j) === NUMBER) numbers++;
+        if (seen.size < 3 || seen.size * 2 < numbers) continue;
+      }
+      pairs.push({ row: h, col: c, score: seen.size, textScore: text, meanLen: len / seen.size, firstRow, firstCol, headed: /^codes?$/i.test(codeAt(g, h, c)) });
     }
   }
   pairs.sort((a, b) => Number(b.headed) - Number(a.headed) || b.textScore - a.textScore || b.score - a.score || a.meanLen - b.meanLen || a.row - b.row || a.col - b.col);
@@ -555,6 +563,13 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
 
   // Code and label in one cell ('A01 Crops'), in rows and header alike: split into the two.
   const split = splitCodes(rowEntries, colEntries, labelColumn === null && codeColumn !== null, labelRow === null && codeRow !== null, mapping.splitCodes);
+  if (split) {
+    // Codes split from labels that now name rows and columns confirm the layout chosen by position.
+    const colSet = new Set(colEntries.map((e) => e.code));
+    const both = rowEntries.filter((e) => colSet.has(e.code)).length;
+    const k = findings.findIndex((f) => f.code === 'layout-by-position' && f.severity === 'warning');
+    if (k >= 0 && both >= 2) findings[k] = { ...findings[k]!, severity: 'note', message: `${findings[k]!.message.replace(/; check the mapping$/, '')}; once the codes are split from the labels written with them, ${both} codes name both a row and a column` };
+  }
 
   // Titles, group headers, key/value rows above the header.
   const titleRows: number[] = [];
@@ -644,8 +659,10 @@ function splitCodes(rows: Entry[], cols: Entry[], rowsAlone: boolean, colsAlone:
     return m;
   };
   const colKeys = new Set(cols.map((e) => e.code));
+  const rowKeys = new Set(rows.map((e) => e.code));
   const shared = new Set(rows.filter((e) => colKeys.has(e.code)).map((e) => e.code));
-  if (given !== true) {
+  /** The sectors (texts naming a row and a column) mostly start with distinct code-like words. */
+  const bySectors = (): boolean => {
     const heads = new Set<string>();
     for (const e of rows) {
       if (!shared.has(e.code)) continue;
@@ -655,8 +672,26 @@ function splitCodes(rows: Entry[], cols: Entry[], rowsAlone: boolean, colsAlone:
       heads.add(m[1]!);
     }
     // Most of them: a total named alike in a row and a column ('Total output') has no code.
-    if (heads.size < 2 || heads.size * 2 <= shared.size) return false;
-  }
+    return heads.size >= 2 && heads.size * 2 > shared.size;
+  };
+  /**
+   * Or one axis joins code and label while the other has them apart ('A01 Crops' across, a code
+   * column 'A01' and a label column 'Crops' down): most of its code-like words name lines of the
+   * other axis, two at least, each once.
+   */
+  const byOtherAxis = (): boolean => {
+    for (const [list, alone, other] of [
+      [rows, rowsAlone, colKeys],
+      [cols, colsAlone, rowKeys],
+    ] as const) {
+      if (!alone) continue;
+      const words = list.map(cut).filter((m): m is RegExpExecArray => !!m).map((m) => m[1]!);
+      const hits = new Set(words.filter((w) => other.has(w)));
+      if (hits.size >= 2 && hits.size === words.filter((w) => other.has(w)).length && hits.size * 2 > words.length) return true;
+    }
+    return false;
+  };
+  if (given !== true && !bySectors() && !byOtherAxis()) return false;
   let any = false;
   for (const [list, alone] of [
     [rows, rowsAlone],

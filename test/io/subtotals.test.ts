@@ -179,3 +179,24 @@ describe('labels in capitals', () => {
     expect(b.table.sectors.labels).toEqual(['Crops', 'Food', 'Building']);
   });
 });
+
+describe('code and label joined across, apart down', () => {
+  it("reads a header of 'A01 Crops' over a code column and a label column, and takes no data values for codes", () => {
+    // Common practice in some workbooks; the numbers are invented. The data hold values (10, 5)
+    // that appear in a row and in a column: they are not codes.
+    const rows: Cell[][] = [
+      ['Code', 'Description', 'A01 Crops', 'C10 Food', 'F41 Building', 'HH Households', 'TOT Total output'],
+      ['A01', 'Crops', 10, 20, 5, 65, 100],
+      ['C10', 'Food', 15, 40, 25, 120, 200],
+      ['F41', 'Building', 5, 30, 50, 115, 200],
+      ['W', 'Wages', 70, 110, 120],
+    ];
+    const r = readTable(gridFromRows(rows, 'mixed.csv'), { blanks: 'zero' });
+    expect(r.table.sectors.codes).toEqual(['A01', 'C10', 'F41']);
+    expect(r.table.sectors.labels).toEqual(['Crops', 'Food', 'Building']);
+    expect(r.table.finalDemand.codes).toEqual(['HH']);
+    expect(Array.from(r.table.x)).toEqual([100, 200, 200]);
+    expect(r.findings.filter((f) => f.severity === 'warning' || f.severity === 'error')).toEqual([]);
+    expect(r.findings.find((f) => f.code === 'layout-by-position')!.message).toMatch(/once the codes are split from the labels written with them, 3 codes name both a row and a column/);
+  });
+});
