@@ -417,7 +417,7 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
       const out: number[] = [];
       for (let i = 0; i < nf && out.length < 2; i++) {
         if (i === value || i === row || i === col) continue;
-        if (prof[i]!.filled === 0 || prof[i]!.labelLike) continue;
+        if (prof[i]!.filled === 0 || prof[i]!.labelLike || (header && /(label|name|title|desc)/i.test(first[i]?.trim() ?? '') && !ROW_NAMES.test(first[i]!.trim()) && !COL_NAMES.test(first[i]!.trim()))) continue;
         // A field with one value on every line (a region, a year, a table number) holds no codes,
         // unless too few fields are left without it (a table of one sector).
         if (skipConstant && prof[i]!.constant) continue;
@@ -476,10 +476,12 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
   }
   if (select.length) why.push(`only lines with ${select.map((q) => `${q.name} = '${q.value}'`).join(' and ')} are read`);
   const choice: FieldChoice = { row, col, value, header, transposed, orientation, select, varying, why };
+  // A label field right after a code field: long texts, or a header that says so ('row_label').
+  const labelNamed = (i: number) => /(label|name|title|desc)/i.test(names[i] ?? '');
   const rl = row + 1;
-  if (rl < nf && rl !== col && rl !== value && prof[rl]!.labelLike) choice.rowLabel = rl;
+  if (rl < nf && rl !== col && rl !== value && (prof[rl]!.labelLike || (labelNamed(rl) && !prof[rl]!.numeric))) choice.rowLabel = rl;
   const cl = col + 1;
-  if (cl < nf && cl !== row && cl !== value && prof[cl]!.labelLike) choice.colLabel = cl;
+  if (cl < nf && cl !== row && cl !== value && (prof[cl]!.labelLike || (labelNamed(cl) && !prof[cl]!.numeric))) choice.colLabel = cl;
   return choice;
 }
 

@@ -105,6 +105,27 @@ describe('long files with national-accounts codes', () => {
   });
 });
 
+describe('long files with label fields', () => {
+  it('take the labels from fields the header names so, and never read them as codes', () => {
+    // Invented numbers; single-word labels, so only the header tells them from codes.
+    const sectors = [['A01', 'Crops'], ['C10', 'Food'], ['F41', 'Building']] as const;
+    const Zs = [[10, 20, 5], [15, 40, 25], [5, 30, 50]];
+    for (const head of ['row_code,row_label,col_code,col_label,value', 'sector,sector name,buyer,buyer name,amount']) {
+      const lines = [head];
+      sectors.forEach(([c, l], i) => {
+        sectors.forEach(([c2, l2], j) => lines.push(`${c},${l},${c2},${l2},${Zs[i]![j]}`));
+        lines.push(`${c},${l},HH,Households,${[65, 120, 115][i]}`);
+      });
+      sectors.forEach(([c2, l2], j) => lines.push(`W,Wages,${c2},${l2},${[70, 110, 120][j]}`));
+      const r = readTable(readLongCsv(lines.join('\n'), { file: 'labelled.csv' }));
+      expect(r.table.sectors.codes).toEqual(['A01', 'C10', 'F41']);
+      expect(r.table.sectors.labels).toEqual(['Crops', 'Food', 'Building']);
+      expect(Array.from(r.table.Z.data)).toEqual(Zs.flat());
+      expect(r.table.finalDemand.labels).toEqual(['Households']);
+    }
+  });
+});
+
 describe('a download of several years', () => {
   const head = 'DATAFLOW,freq,unit,induse,prod_na,geo,TIME_PERIOD,OBS_VALUE,OBS_FLAG';
   const lines = [head];
