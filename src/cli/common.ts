@@ -48,6 +48,7 @@ export function tableOptions(cmd: Command): Command {
     .option('--select <field=value>', 'long files: read only the lines whose field (a header name or a number from 1) holds this text, such as TIME_PERIOD=2020 (repeatable)', collect)
     .option('--zero-text <text>', "a text that means zero in the table's cells, such as - or .. (repeatable; default: none, such cells are errors)", collect)
     .option('--decimal <mark>', "the decimal mark of a CSV or TSV file: '.' or ',' (default: seen in the numbers)")
+    .option('--encoding <name>', 'the text encoding of a CSV or TSV file: utf-8, windows-1252, utf-16le or utf-16be (default: from a byte-order mark, else UTF-8, else Windows-1252 with a warning)')
     .option('--thousands <separator>', "the thousands separator: one character, such as ',' '.' or ' ', or 'none' (default: seen in the numbers)")
     .option('--table-kind <kind>', 'flows|coefficients: transactions, or technical coefficients A (default: detected)');
 }

@@ -56,7 +56,7 @@ export function errorReport(e: unknown): ErrorReport {
   if (e instanceof InputError) {
     const where = describeWhere(e.where);
     // The readers name their options as a program calls them; say how the command line spells them.
-    let message = e.message.replace(/read it with blanks: 'zero'/, 'give --blanks zero').replace(/pass it in zeroTexts/g, 'give --zero-text (or zeroTexts in a mapping)').replace(/\bGive valueField \(1-based\)/, 'Give the value field, counted from 1 (valueField in a --mapping file; for requirements, --make-value-column or --use-value-column)');
+    let message = e.message.replace(/read it with blanks: 'zero'/, 'give --blanks zero').replace(/pass it in zeroTexts/g, 'give --zero-text (or zeroTexts in a mapping)').replace(/([Pp])ass the file's encoding( \(for example encoding: 'windows-1252'\))?/, (_m, p: string) => `${p === 'P' ? 'G' : 'g'}ive the file's encoding (--encoding windows-1252, for example)`).replace(/\bGive valueField \(1-based\)/, 'Give the value field, counted from 1 (valueField in a --mapping file; for requirements, --make-value-column or --use-value-column)');
     let hint: string | undefined;
     if (e.hint && /^Choose the decimal mark/.test(e.hint)) {
       hint = 'Choose the decimal mark: --decimal . or --decimal ,';

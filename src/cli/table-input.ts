@@ -31,6 +31,17 @@ export interface TableFlags {
   thousands?: string;
   select?: string[];
   zeroText?: string[];
+  encoding?: string;
+}
+
+const ENCODINGS = ['utf-8', 'windows-1252', 'utf-16le', 'utf-16be'] as const;
+
+/** --encoding, checked ('latin-1' and 'cp1252' are taken for windows-1252, 'utf8' for utf-8). */
+export function encodingOption(v: string | undefined): (typeof ENCODINGS)[number] | undefined {
+  if (v === undefined) return undefined;
+  const e = v.trim().toLowerCase().replace(/^utf8$/, 'utf-8').replace(/^(latin-?1|iso-8859-1|cp1252|windows1252)$/, 'windows-1252');
+  if (!(ENCODINGS as readonly string[]).includes(e)) throw new UsageError(`--encoding must be one of ${ENCODINGS.join(', ')}; got '${v}'`, 'bad-encoding');
+  return e as (typeof ENCODINGS)[number];
 }
 
 /** --select FIELD=VALUE (repeatable), checked. */
@@ -138,12 +149,14 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
   }
   const sheet = sheetOption(flags.sheet);
   const numbers = numberOptions(flags);
+  const encoding = encodingOption(flags.encoding);
   const select = selectOption(flags.select);
   const zeroTexts = flags.zeroText?.length ? flags.zeroText.map((t) => t.trim()).filter(Boolean) : undefined;
   if (select && flags.shape === 'wide') throw new UsageError('--select applies to long files; this one is read as wide (--shape wide)', 'select-not-long');
   const r = await readTableFile(file.bytes, {
     file: ioName(file, format),
     ...numbers,
+    ...(encoding ? { encoding } : {}),
     ...(sheet !== undefined ? { sheet } : {}),
     ...(format === 'tsv' ? { delimiter: '\t' as const } : {}),
     ...(mapping ? { mapping } : {}),

@@ -262,7 +262,10 @@ export function classify(block: Block, options: AssembleOptions): Classified {
   const colRoles = cr.map((x) => x.role!) as ColumnRole[];
   const rowWhy = rr.map((x) => x.why);
   const colWhy = cr.map((x) => x.why);
-  if (!plain) findSubtotals(block, rowRoles, colRoles, rowWhy, colWhy, rr, cr);
+  if (!plain) {
+    totalNamedLikeSector(block, rowRoles, colRoles, rowWhy, colWhy, rr, cr);
+    findSubtotals(block, rowRoles, colRoles, rowWhy, colWhy, rr, cr);
+  }
 
   let totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   // Demote unexplained totals whose label (or code) says what else they are; then promote the sum
@@ -383,6 +386,65 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     if (o?.label) e.label = o.label;
   });
   return { rowRoles, colRoles, rowWhy, colWhy, units, totals, findings };
+}
+
+/**
+ * A total named like a sector: the last sector row and the last sector column share a name no
+ * pattern knows ('Production', 'Gesamt') and are the sums of everything above and before them.
+ * A real sector's row cannot be the sum of all the others in every column, so both are totals
+ * (the total checks then take them for output). Roles from a mapping or the sheet are kept.
+ */
+function totalNamedLikeSector(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], rowWhy: string[], colWhy: string[], rr: RoleWhy<RowRole>[], cr: RoleWhy<ColumnRole>[]): void {
+  const fixed = (x: RoleWhy<string>) => x.why === 'mapping' || x.why === 'role written in the sheet';
+  const ti = rowRoles.lastIndexOf('sector');
+  const tj = colRoles.lastIndexOf('sector');
+  if (ti < 0 || tj < 0 || block.rows[ti]!.code !== block.cols[tj]!.code || fixed(rr[ti]!) || fixed(cr[tj]!)) return;
+  const sectorRows = rowRoles.map((r, i) => (r === 'sector' && i !== ti ? i : -1)).filter((i) => i >= 0);
+  const sectorCols = colRoles.map((r, j) => (r === 'sector' && j !== tj ? j : -1)).filter((j) => j >= 0);
+  if (sectorRows.length < 2) return;
+  const unit = block.decimals === undefined ? 0 : 10 ** -block.decimals;
+  const close = (found: number, sum: number, parts: number) =>
+    Math.abs(found - sum) <= Math.min(unit * Math.min(0.5 * (parts + 1), 6 * Math.sqrt(parts / 12) + 0.5), 0.02 * Math.abs(sum)) + 1e-9 * Math.max(Math.abs(found), Math.abs(sum), 1);
+  const num = (v: number) => (v === v ? v : 0);
+  // The row: over the other sector columns, the sum of the sector and value-added rows above it.
+  const above = rowRoles.map((r, i) => (i < ti && (r === 'sector' || r === 'value-added' || r === 'imports') ? i : -1)).filter((i) => i >= 0);
+  const tv = block.values(ti);
+  let nonzero = 0;
+  for (const j of sectorCols) {
+    const pos = block.cols[j]!.pos;
+    let sum = 0;
+    let parts = 0;
+    for (const i of above) {
+      const v = num(block.values(i)[pos]!);
+      sum += v;
+      if (v !== 0) parts++;
+    }
+    const found = num(tv[pos]!);
+    if (!close(found, sum, parts)) return;
+    if (found !== 0) nonzero++;
+  }
+  if (nonzero * 2 <= sectorCols.length) return;
+  // The column: in the other sector rows, the sum of the sector and final-demand columns before it.
+  const before = colRoles.map((r, j) => (j < tj && (r === 'sector' || r === 'final-demand') ? j : -1)).filter((j) => j >= 0);
+  nonzero = 0;
+  for (const i of sectorRows) {
+    const v = block.values(i);
+    let sum = 0;
+    let parts = 0;
+    for (const j of before) {
+      const x = num(v[block.cols[j]!.pos]!);
+      sum += x;
+      if (x !== 0) parts++;
+    }
+    const found = num(v[block.cols[tj]!.pos]!);
+    if (!close(found, sum, parts)) return;
+    if (found !== 0) nonzero++;
+  }
+  if (nonzero * 2 <= sectorRows.length) return;
+  rowRoles[ti] = 'total';
+  colRoles[tj] = 'total';
+  rowWhy[ti] = `${rowWhy[ti]}, but it is the sum of every row above it, and its column the sum of every column before it, so both are totals`;
+  colWhy[tj] = `${colWhy[tj]}, but it is the sum of every column before it, and its row the sum of every row above it, so both are totals`;
 }
 
 /**

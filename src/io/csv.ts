@@ -220,7 +220,7 @@ function emptyFile(file: string): never {
   throw new InputError('empty-file', `file ${file} is empty`, { file }, 'Give a file with a table in it');
 }
 
-function findingsOf(c: CsvConventions, file: string): Finding[] {
+function findingsOf(c: CsvConventions, file: string, encodingGiven = false): Finding[] {
   const out: Finding[] = [];
   const parts = [
     `${delimiterName(c.delimiter)}-separated${c.delimiterFrom === 'default' ? ' (no delimiter found; one column)' : ''}`,
@@ -238,8 +238,8 @@ function findingsOf(c: CsvConventions, file: string): Finding[] {
       data: { cells: c.ambiguous.count },
     });
   }
-  if (c.encoding === 'windows-1252') {
-    out.push({ code: 'encoding-guessed', severity: 'warning', message: `file ${file} is not UTF-8; it was read as Windows-1252. If letters look wrong, pass the file's encoding`, where: { file } });
+  if (c.encoding === 'windows-1252' && !encodingGiven) {
+    out.push({ code: 'encoding-guessed', severity: 'warning', message: `file ${file} is not UTF-8; it was read as Windows-1252. If letters look wrong, give the file's encoding (the command line: --encoding)`, where: { file } });
   }
   return out;
 }
@@ -293,7 +293,7 @@ export function readCsv(input: Uint8Array | string, options: CsvOptions): CsvRea
   if (grid.rowCount === 0) emptyFile(file);
   const conventions = conventionsOf(sink.numbers, delimiter, delimiterFrom, encoding, bom);
   grid.conventions = { ...conventions };
-  return { grid, conventions, findings: findingsOf(conventions, file) };
+  return { grid, conventions, findings: findingsOf(conventions, file, options.encoding !== undefined) };
 }
 
 function badDelimiter(d: string): InputError {
@@ -412,7 +412,7 @@ export class StreamingCsv {
     if (grid.rowCount === 0) emptyFile(file);
     const conventions = conventionsOf(this.sink!.numbers, this.delimiter, this.delimiterFrom, this.encoding, this.bom);
     grid.conventions = { ...conventions };
-    return { grid, conventions, findings: findingsOf(conventions, file) };
+    return { grid, conventions, findings: findingsOf(conventions, file, this.options.encoding !== undefined) };
   }
 }
 

@@ -209,6 +209,42 @@ describe('a keyed sheet: codes packed in the first column, one column per period
   });
 });
 
+describe('a table in another language', () => {
+  // Invented figures, French labels, Windows-1252 with semicolons and a decimal comma: the total
+  // 'Production' names a row and a column like a sector, but the data show it is the sum of all.
+  const text = [
+    'Tableau entrées-sorties 2020 (données inventées);;;;;',
+    ';Agriculture;Industrie agro-alimentaire;Bâtiment;Ménages;Production',
+    'Agriculture;10,5;20;5;64,5;100',
+    'Industrie agro-alimentaire;15;40;25;120;200',
+    'Bâtiment;5;30;50;115;200',
+    'Rémunération des salariés;69,5;110;120;;',
+    'Production;100;200;200;;',
+  ].join('\n');
+  const latin = new Uint8Array([...text].map((ch) => ch.charCodeAt(0))); // these letters are the same bytes in Windows-1252
+
+  it('takes a total named like a sector for a total, and reads its letters with --encoding', async () => {
+    const dir = tempDir();
+    const file = join(dir, 'fr.csv');
+    writeFileSync(file, latin);
+    const guessed = await run(['multipliers', file, '--no-household', '--json']);
+    expect(guessed.code, guessed.stderr).toBe(0);
+    const g = JSON.parse(guessed.stdout) as { measures: { sectors: { label: string; simple: number }[] }[]; findings: { code: string }[] };
+    expect(g.measures[0]!.sectors.map((x) => x.label)).toEqual(['Agriculture', 'Industrie agro-alimentaire', 'Bâtiment']);
+    expect(g.findings.some((f) => f.code === 'encoding-guessed')).toBe(true);
+    const given = await run(['multipliers', file, '--no-household', '--encoding', 'latin-1', '--json']);
+    expect((JSON.parse(given.stdout) as { findings: { code: string }[] }).findings.some((f) => f.code === 'encoding-guessed')).toBe(false);
+    const wrong = await run(['check', file, '--encoding', 'utf-8']);
+    expect(wrong.code).toBe(2);
+    expect(wrong.stderr).toMatch(/is not valid utf-8\. Give the file's encoding \(--encoding windows-1252, for example\)/);
+    // Output multipliers: column sums of (I − A)⁻¹ with x = 100, 200, 200 (source: ml-matrix 6.15.1).
+    const Zs = [[10.5, 20, 5], [15, 40, 25], [5, 30, 50]];
+    const X = [100, 200, 200];
+    const L = inverse(MlMatrix.eye(3).sub(new MlMatrix(Zs.map((r) => r.map((v, j) => v / X[j]!)))));
+    g.measures[0]!.sectors.forEach((x, j) => expect(Math.abs(x.simple - (L.get(0, j) + L.get(1, j) + L.get(2, j)))).toBeLessThan(1e-12));
+  });
+});
+
 describe('number conventions on the command line', () => {
   it('is asked for when every number is ambiguous, and --decimal settles it; a comma-separated file takes the point, with a warning', async () => {
     const dir = tempDir();
