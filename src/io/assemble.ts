@@ -142,6 +142,8 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       // and the data say it is one.
       if ((m = codeOf(e, P.totals))) return { role: 'total', why: `code matches ${m}`, alt: 'sector' };
       if (!plain && (m = codeOf(e, P.output))) return { role: 'output', why: `code matches ${m}`, alt: 'sector' };
+      // Imports named alike as a row (imported inputs) and a column (imports taken off final demand): no industry makes them.
+      if (!plain && ((m = codeOf(e, P.imports)) || (m = P.imports.label(e.label)))) return { role: 'final-demand', why: `it matches the imports pattern ${m}: a column of imports, not a sector` };
       return { role: 'sector', why: 'its code names a row too' };
     }
     if ((m = codeOf(e, P.totals))) {
@@ -181,6 +183,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     if (colCodes.has(e.code)) {
       if ((m = codeOf(e, P.totals))) return { role: 'total', why: `code matches ${m}`, alt: 'sector' };
       if (!plain && (m = codeOf(e, P.output))) return { role: 'output', why: `code matches ${m}`, alt: 'sector' };
+      if (!plain && ((m = codeOf(e, P.imports)) || (m = P.imports.label(e.label)))) return { role: 'imports', why: `it matches the imports pattern ${m}: a row of imports, not a sector` };
       return { role: 'sector', why: 'its code names a column too' };
     }
     if ((m = codeOf(e, P.totals))) {

@@ -200,3 +200,23 @@ describe('code and label joined across, apart down', () => {
     expect(r.findings.find((f) => f.code === 'layout-by-position')!.message).toMatch(/once the codes are split from the labels written with them, 3 codes name both a row and a column/);
   });
 });
+
+describe('imports named alike as a row and a column', () => {
+  it('are the imports row and a final-demand column of imports, not a sector (common practice)', () => {
+    // Invented numbers: imported inputs by industry in a row, imports taken off final demand in a column.
+    const rows: Cell[][] = [
+      ['code', 'label', 'A', 'B', 'HH', 'EXP', 'IMP', 'X'],
+      ['A', 'Alpha', 10, 20, 60, 30, -20, 100],
+      ['B', 'Beta', 30, 40, 110, 50, -30, 200],
+      ['IMP', 'Imports', 5, 15],
+      ['W', 'Wages', 55, 125],
+      ['X', 'Output', 100, 200],
+    ];
+    const r = readTable(gridFromRows(rows, 'imports.csv'), { blanks: 'zero' });
+    expect(r.table.sectors.codes).toEqual(['A', 'B']);
+    expect(r.table.finalDemand.codes).toEqual(['HH', 'EXP', 'IMP']);
+    expect(Array.from(r.table.imports!)).toEqual([5, 15]);
+    expect(Array.from(r.table.x)).toEqual([100, 200]);
+    expect(r.findings.filter((f) => f.severity === 'warning' || f.severity === 'error')).toEqual([]);
+  });
+});
