@@ -21,6 +21,7 @@
  *   `ill-conditioned` (warning above 1e10).
  */
 import { stronglyConnected } from './linalg/graph';
+import { roundingBound } from './rounding';
 import { conditionEstimate } from './linalg/condition';
 import { LU } from './linalg/lu';
 import type { Matrix } from './linalg/matrix';
@@ -127,7 +128,7 @@ export function checks(t: Table, options: CheckOptions = {}): Finding[] {
   const overTolerance = (kind: string, gaps: Gap[]): Gap[] => {
     const over = gaps.filter((g) => g.rel > tol);
     if (!rounding) return over;
-    const bound = (g: Gap) => rounding * Math.min(0.5 * (g.parts + 1), 6 * Math.sqrt(g.parts / 12) + 0.5);
+    const bound = (g: Gap) => roundingBound(rounding, g.parts);
     const soft = over.filter((g) => Math.abs(g.total - g.x) <= bound(g));
     if (soft.length) withinRounding.push({ kind, gaps: soft });
     return over.filter((g) => Math.abs(g.total - g.x) > bound(g));

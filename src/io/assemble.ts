@@ -18,6 +18,7 @@
  * left out; if its label also says what it is ('Total value added' alone, with no parts), it is
  * read as that line instead. The sum of everything is the output line when no line is named so.
  */
+import { roundingBound } from '../../engine/rounding';
 import { InputError, type Where } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
 import { LeontiefModel } from '../../engine/leontief';
@@ -273,7 +274,6 @@ export function classify(block: Block, options: AssembleOptions): Classified {
   let totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   // Demote unexplained totals whose label (or code) says what else they are; then promote the sum
   // of everything to output. Each change is checked again.
-  const fixed = (x: RoleWhy<string>) => x.why === 'mapping' || x.why === 'role written in the sheet';
   const demote = (sectorsOnly = false): boolean => {
     let changed = false;
     const sectors: { axis: 'row' | 'column'; idx: number; was: string; why: string }[] = [];
@@ -283,7 +283,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       const x = list[idx]!;
       const roles = t.axis === 'row' ? rowRoles : colRoles;
       const whys = t.axis === 'row' ? rowWhy : colWhy;
-      if (!t.sumOf && x.alt && (!sectorsOnly || (x.alt === 'sector' && roles[idx] === 'total')) && !fixed(x) && (roles[idx] === 'total' || (roles[idx] === 'output' && x.alt === 'sector'))) {
+      if (!t.sumOf && x.alt && (!sectorsOnly || (x.alt === 'sector' && roles[idx] === 'total')) && !isFixed(x) && (roles[idx] === 'total' || (roles[idx] === 'output' && x.alt === 'sector'))) {
         if (x.alt === 'sector') sectors.push({ axis: t.axis, idx, was: roles[idx]!, why: whys[idx]! });
         roles[idx] = x.alt as never;
         whys[idx] = `${x.why}, but it is the sum of nothing before or after it, so it is read as ${x.alt}`;
@@ -317,7 +317,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       const t = grand[grand.length - 1];
       if (!t) continue;
       const idx = (axis === 'row' ? block.rows : block.cols).findIndex((e) => e.code === t.code);
-      if (fixed((axis === 'row' ? rr : cr)[idx]!)) continue;
+      if (isFixed((axis === 'row' ? rr : cr)[idx]!)) continue;
       roles[idx] = 'output';
       (axis === 'row' ? rowWhy : colWhy)[idx] += `; it is the sum of ${ALL_NAME[axis]}, so it is read as total output`;
       changed = true;
@@ -347,7 +347,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
       const tried = totals
         .filter((t) => t.axis === axis && !t.sumOf && t.role === 'total')
         .map((t) => entries.findIndex((e) => e.code === t.code))
-        .filter((i) => i > firstSector && i < outAt && roles[i] === 'total' && !why[i]!.alt && !fixed(why[i]!) && why[i]!.why.startsWith('code matches'));
+        .filter((i) => i > firstSector && i < outAt && roles[i] === 'total' && !why[i]!.alt && !isFixed(why[i]!) && why[i]!.why.startsWith('code matches'));
       if (!tried.length) continue;
       const as = axis === 'row' ? 'value-added' : 'final-demand';
       for (const i of tried) roles[i] = as;
@@ -391,6 +391,25 @@ export function classify(block: Block, options: AssembleOptions): Classified {
   return { rowRoles, colRoles, rowWhy, colWhy, units, totals, findings };
 }
 
+/** Roles a user gave (in a mapping or written in the sheet): never changed by what the data suggest. */
+function isFixed(x: RoleWhy<string>): boolean {
+  return x.why === 'mapping' || x.why === 'role written in the sheet';
+}
+
+/** The unit the block's figures seem rounded to (0 when unknown). */
+function roundingUnit(block: Block): number {
+  return block.decimals === undefined ? 0 : 10 ** -block.decimals;
+}
+
+/**
+ * How far a line may miss the sum of `parts` lines and still be taken for their subtotal: the
+ * rounding of the parts, but never more than 2% of the sum (in a small table of small whole
+ * numbers, rounding alone would let chance sums pass for subtotals).
+ */
+function subtotalTolerance(unit: number, found: number, sum: number, parts: number): number {
+  return Math.min(roundingBound(unit, parts), 0.02 * Math.abs(sum)) + 1e-9 * Math.max(Math.abs(found), Math.abs(sum), 1);
+}
+
 /**
  * A total named like a sector: the last sector row and the last sector column share a name no
  * pattern knows ('Production', 'Gesamt') and are the sums of everything above and before them.
@@ -398,16 +417,14 @@ export function classify(block: Block, options: AssembleOptions): Classified {
  * (the total checks then take them for output). Roles from a mapping or the sheet are kept.
  */
 function totalNamedLikeSector(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], rowWhy: string[], colWhy: string[], rr: RoleWhy<RowRole>[], cr: RoleWhy<ColumnRole>[]): void {
-  const fixed = (x: RoleWhy<string>) => x.why === 'mapping' || x.why === 'role written in the sheet';
   const ti = rowRoles.lastIndexOf('sector');
   const tj = colRoles.lastIndexOf('sector');
-  if (ti < 0 || tj < 0 || block.rows[ti]!.code !== block.cols[tj]!.code || fixed(rr[ti]!) || fixed(cr[tj]!)) return;
+  if (ti < 0 || tj < 0 || block.rows[ti]!.code !== block.cols[tj]!.code || isFixed(rr[ti]!) || isFixed(cr[tj]!)) return;
   const sectorRows = rowRoles.map((r, i) => (r === 'sector' && i !== ti ? i : -1)).filter((i) => i >= 0);
   const sectorCols = colRoles.map((r, j) => (r === 'sector' && j !== tj ? j : -1)).filter((j) => j >= 0);
   if (sectorRows.length < 2) return;
-  const unit = block.decimals === undefined ? 0 : 10 ** -block.decimals;
-  const close = (found: number, sum: number, parts: number) =>
-    Math.abs(found - sum) <= Math.min(unit * Math.min(0.5 * (parts + 1), 6 * Math.sqrt(parts / 12) + 0.5), 0.02 * Math.abs(sum)) + 1e-9 * Math.max(Math.abs(found), Math.abs(sum), 1);
+  const unit = roundingUnit(block);
+  const close = (found: number, sum: number, parts: number) => Math.abs(found - sum) <= subtotalTolerance(unit, found, sum, parts);
   const num = (v: number) => (v === v ? v : 0);
   // The row: over the other sector columns, the sum of the sector and value-added rows above it.
   const above = rowRoles.map((r, i) => (i < ti && (r === 'sector' || r === 'value-added' || r === 'imports') ? i : -1)).filter((i) => i >= 0);
@@ -460,12 +477,8 @@ function totalNamedLikeSector(block: Block, rowRoles: RowRole[], colRoles: Colum
  * not zero in most of them; roles from a mapping or the sheet are kept.
  */
 function findSubtotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], rowWhy: string[], colWhy: string[], rr: RoleWhy<RowRole>[], cr: RoleWhy<ColumnRole>[]): void {
-  const fixed = (x: RoleWhy<string>) => x.why === 'mapping' || x.why === 'role written in the sheet';
-  const unit = block.decimals === undefined ? 0 : 10 ** -block.decimals;
-  // The rounding of the parts, but never more than 2% of the sum: in a small table of small
-  // whole numbers, rounding alone would let chance sums pass for subtotals.
-  const tol = (found: number, sum: number, parts: number) =>
-    Math.min(unit * Math.min(0.5 * (parts + 1), 6 * Math.sqrt(parts / 12) + 0.5), 0.02 * Math.abs(sum)) + 1e-9 * Math.max(Math.abs(found), Math.abs(sum), 1);
+  const unit = roundingUnit(block);
+  const tol = (found: number, sum: number, parts: number) => subtotalTolerance(unit, found, sum, parts);
   const sectorCols = colRoles.map((r, j) => (r === 'sector' ? block.cols[j]!.pos : -1)).filter((p) => p >= 0);
   const sectorRows = rowRoles.map((r, i) => (r === 'sector' ? i : -1)).filter((i) => i >= 0);
   if (!sectorCols.length || !sectorRows.length) return;
@@ -494,7 +507,7 @@ function findSubtotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[]
   };
   const primary = ['value-added', 'imports'];
   rowRoles.forEach((r, t) => {
-    if (!primary.includes(r) || fixed(rr[t]!)) return;
+    if (!primary.includes(r) || isFixed(rr[t]!)) return;
     for (const parts of adjacentRuns(rowRoles, t, primary)) {
       if (sums(rowAt, t, parts, sectorCols.length)) {
         rowRoles[t] = 'total';
@@ -511,7 +524,7 @@ function findSubtotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[]
     return v[block.cols[j]!.pos]!;
   };
   colRoles.forEach((r, t) => {
-    if (r !== 'final-demand' || fixed(cr[t]!)) return;
+    if (r !== 'final-demand' || isFixed(cr[t]!)) return;
     for (const parts of adjacentRuns(colRoles, t, ['final-demand'])) {
       if (sums(colAt, t, parts, sectorRows.length)) {
         colRoles[t] = 'total';
@@ -533,7 +546,7 @@ function findSubtotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[]
     const r = rowRoles[t]!;
     if (r !== 'sector' && !primary.includes(r)) continue;
     const v = block.values(t);
-    if (r !== 'sector' && !fixed(rr[t]!) && lines >= 2) {
+    if (r !== 'sector' && !isFixed(rr[t]!) && lines >= 2) {
       let ok = true;
       let nonzero = 0;
       for (let k = 0; k < nc && ok; k++) {
@@ -588,7 +601,7 @@ function findSubtotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[]
   // Columns marked as totals here leave the running sums of those after them too high; a second
   // such column in one table is rare, so each is judged against the sums with all before it.
   fdCols.forEach((t, f) => {
-    if (fixed(cr[t]!) || (checkAt.get(t) ?? 0) < 2) return;
+    if (isFixed(cr[t]!) || (checkAt.get(t) ?? 0) < 2) return;
     let nonzero = 0;
     for (let k = 0; k < nr; k++) {
       const found = found2[k * fdCols.length + f]!;
@@ -662,10 +675,10 @@ function checkTotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], 
     return done!;
   }
   const out: TotalCheck[] = [];
-  const unit = block.decimals === undefined ? 0 : 10 ** -block.decimals;
+  const unit = roundingUnit(block);
   // Rounding of the parts: each is off by at most half a unit, and their errors add like independent
   // uniform errors (six standard deviations, capped by the worst case), plus the total's own half unit.
-  const tolOf = (found: number, sum: number, nz: number) => unit * Math.min(0.5 * (nz + 1), 6 * Math.sqrt(nz / 12) + 0.5) + 1e-9 * Math.max(Math.abs(found), Math.abs(sum), 1);
+  const tolOf = (found: number, sum: number, nz: number) => roundingBound(unit, nz) + 1e-9 * Math.max(Math.abs(found), Math.abs(sum), 1);
 
   // Column totals: parts are sector and final-demand columns; lines are sector, value-added and imports rows.
   {
