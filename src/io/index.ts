@@ -17,7 +17,7 @@ export { readXlsx, openWorkbook, loadExcel } from './xlsx';
 export type { XlsxOptions, XlsxRead } from './xlsx';
 export { zipEntries, checkZipSizes, verifyZipSizes } from './zip-guard';
 export type { ZipEntry } from './zip-guard';
-export { readLongCsv, readLongCsvStream, readLongGrid, StreamingLong } from './long';
+export { readLongCsv, readLongCsvStream, readLongGrid, SAMPLE_LINES, StreamingLong } from './long';
 export type { LongOptions, LongTable } from './long';
 export { DEFAULT_PATTERNS, resolvePatterns, globToRegExp } from './patterns';
 export type { LayoutPatterns, PatternSet } from './patterns';

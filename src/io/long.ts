@@ -68,7 +68,7 @@ export interface LongTable {
   orientation: 'given' | 'named' | 'order';
 }
 
-const SAMPLE_LINES = 2000;
+export const SAMPLE_LINES = 2000;
 /** Texts that stand for zero or a value not available in published tables. */
 const GAP = /^(n\/?a|\.\.|\.\.\.|…|-|–|—|x|:|c)$/i;
 const CHUNK = 1 << 20;
@@ -289,15 +289,27 @@ interface FieldChoice {
  */
 function selectionTest(first: string[] | undefined, select: Record<string, string> | undefined): ((l: string[]) => boolean) | undefined {
   if (!select || !first) return undefined;
-  const names = first.map((t) => t.trim().toLowerCase());
-  const tests: [number, string][] = [];
+  const r = resolveSelection(first.map((t) => t.trim()), select);
+  return r.missing === undefined ? (l) => keepsLine(r.fields, l) : undefined;
+}
+
+type Selection = FieldChoice['select'];
+
+/** A selection's fields, by 1-based number or by a name of `names` (case-insensitive); `missing` is the first key found neither way. */
+function resolveSelection(names: string[], select: Record<string, string>): { fields: Selection; missing?: string } {
+  const fields: Selection = [];
   for (const [key, value] of Object.entries(select)) {
     const k = key.trim();
-    const field = /^\d+$/.test(k) ? Number(k) - 1 : names.indexOf(k.toLowerCase());
-    if (field < 0) return undefined;
-    tests.push([field, String(value).trim()]);
+    const field = /^\d+$/.test(k) ? Number(k) - 1 : names.findIndex((n) => n.toLowerCase() === k.toLowerCase());
+    if (field < 0) return { fields, missing: key };
+    fields.push({ field, name: names[field] || `field ${field + 1}`, value: String(value).trim() });
   }
-  return (l) => tests.every(([f, v]) => (l[f] ?? '').trim() === v);
+  return { fields };
+}
+
+/** Whether a line holds every text of the selection. */
+function keepsLine(select: Selection, l: string[]): boolean {
+  return select.every((q) => (l[q.field] ?? '').trim() === q.value);
 }
 
 /** Lines for deciding the fields: the first SAMPLE_LINES, and with a selection the later lines it keeps, until it keeps SAMPLE_LINES. */
@@ -348,25 +360,25 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
       header = first.some((t, i) => t.trim() !== '' && !isNum(t) && later.length > 0 && later.filter((l) => l[i] !== undefined && isNum(l[i]!)).length >= later.length * 0.8);
     }
   }
-  const select: FieldChoice['select'] = [];
+  const names = header ? first.map((t) => t.trim()) : [];
+  let select: Selection = [];
   const given = options.select ?? m.select;
   if (given) {
-    const names = header ? first.map((t) => t.trim()) : [];
-    for (const [key, value] of Object.entries(given)) {
-      let field = /^\d+$/.test(key.trim()) ? Number(key) - 1 : names.findIndex((n) => n.toLowerCase() === key.trim().toLowerCase());
-      if (field < 0 || field >= nf) {
-        throw new InputError(
-          'bad-select',
-          `file ${file}: the selection names field '${key}', which ${/^\d+$/.test(key.trim()) ? `is not among its ${nf} fields` : header ? 'is not in its header line' : 'cannot be found: the file has no header line, so give the field by number'}`,
-          { file, text: key },
-          names.length ? `The header names ${names.filter(Boolean).slice(0, 12).map((n) => `'${n}'`).join(', ')}` : undefined,
-        );
-      }
-      select.push({ field, name: names[field] || `field ${field + 1}`, value: String(value).trim() });
+    const r = resolveSelection(names, given);
+    const key = r.missing ?? Object.keys(given).find((k) => /^\d+$/.test(k.trim()) && Number(k) > nf);
+    if (key !== undefined) {
+      throw new InputError(
+        'bad-select',
+        `file ${file}: the selection names field '${key}', which ${/^\d+$/.test(key.trim()) ? `is not among its ${nf} fields` : header ? 'is not in its header line' : 'cannot be found: the file has no header line, so give the field by number'}`,
+        { file, text: key },
+        names.length ? `The header names ${names.filter(Boolean).slice(0, 12).map((n) => `'${n}'`).join(', ')}` : undefined,
+      );
     }
+    select = r.fields;
   }
-  const keep = (l: string[]) => select.every((q) => (l[q.field] ?? '').trim() === q.value);
-  const data = (header ? lines.slice(1) : lines).filter(keep);
+  /** Whether the header names field i a label ('row_label', 'sector name', 'description'). */
+  const labelNamed = (i: number) => /(label|name|title|desc)/i.test(names[i] ?? '');
+  const data = (header ? lines.slice(1) : lines).filter((l) => keepsLine(select, l));
   if (!data.length && select.length) {
     const q = select[0]!;
     const seen = [...new Set((header ? lines.slice(1) : lines).map((l) => (l[q.field] ?? '').trim()))].slice(0, 8);
@@ -374,7 +386,6 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
   }
   if (!data.length) throw new InputError('no-rows', `file ${file} has a header line but no data lines`, { file }, 'Give a file with at least one line of data');
   if (header) {
-    const names = first.map((t) => t.trim());
     const r = names.findIndex((n) => ROW_NAMES.test(n));
     const c = names.findIndex((n) => COL_NAMES.test(n));
     const v = names.findIndex((n) => VALUE_NAMES.test(n));
@@ -417,7 +428,7 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
       const out: number[] = [];
       for (let i = 0; i < nf && out.length < 2; i++) {
         if (i === value || i === row || i === col) continue;
-        if (prof[i]!.filled === 0 || prof[i]!.labelLike || (header && /(label|name|title|desc)/i.test(first[i]?.trim() ?? '') && !ROW_NAMES.test(first[i]!.trim()) && !COL_NAMES.test(first[i]!.trim()))) continue;
+        if (prof[i]!.filled === 0 || prof[i]!.labelLike || (labelNamed(i) && !ROW_NAMES.test(names[i]!) && !COL_NAMES.test(names[i]!))) continue;
         // A field with one value on every line (a region, a year, a table number) holds no codes,
         // unless too few fields are left without it (a table of one sector).
         if (skipConstant && prof[i]!.constant) continue;
@@ -467,7 +478,6 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
     [row, col] = [col, row];
     why.push('transposed: the first code field is the column');
   }
-  const names = header ? first.map((t) => t.trim()) : [];
   const varying: FieldChoice['varying'] = [];
   for (let i = 0; i < nf; i++) {
     if (i === row || i === col || i === value || prof[i]!.filled === 0 || prof[i]!.labelLike || select.some((q) => q.field === i) || /^(obs_)?(flags?|status|notes?)$/i.test(names[i] ?? '')) continue;
@@ -477,7 +487,6 @@ function chooseFields(sample: string[][], options: LongOptions, file: string): F
   if (select.length) why.push(`only lines with ${select.map((q) => `${q.name} = '${q.value}'`).join(' and ')} are read`);
   const choice: FieldChoice = { row, col, value, header, transposed, orientation, select, varying, why };
   // A label field right after a code field: long texts, or a header that says so ('row_label').
-  const labelNamed = (i: number) => /(label|name|title|desc)/i.test(names[i] ?? '');
   const rl = row + 1;
   if (rl < nf && rl !== col && rl !== value && (prof[rl]!.labelLike || (labelNamed(rl) && !prof[rl]!.numeric))) choice.rowLabel = rl;
   const cl = col + 1;
@@ -662,7 +671,7 @@ class LongReader {
   /** One record as texts (grid lines and sample lines). */
   texts(f: string[]): void {
     const ch = this.choice;
-    if (f.every((x) => x.trim() === '') || (ch.select.length && !ch.select.every((q) => (f[q.field] ?? '').trim() === q.value))) {
+    if (f.every((x) => x.trim() === '') || !keepsLine(ch.select, f)) {
       this.skipped.push(this.record);
       return;
     }

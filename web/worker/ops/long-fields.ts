@@ -11,14 +11,12 @@
  * MAX_TEXTS texts (codes and labels), so a big file costs one pass and little memory.
  */
 import { InputError } from '../../../engine/index';
-import { EMPTY, Grid, NUMBER, latestPeriod, readLongGrid } from '../../../src/io/index';
+import { EMPTY, Grid, NUMBER, SAMPLE_LINES, latestPeriod, readLongGrid } from '../../../src/io/index';
 import type { MappingInput } from '../../../src/io/index';
 import type { Finding } from '../../../engine/index';
 
 /** At most this many texts of a field are listed; a field with more is reported as having many. */
 export const MAX_TEXTS = 50;
-/** The lines src/io's long reader decides the fields from (its SAMPLE_LINES). */
-const SAMPLE_LINES = 2000;
 
 export interface LongFieldText {
   text: string;
