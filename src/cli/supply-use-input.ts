@@ -4,7 +4,7 @@
  * or given counted from 1), aligned on industry and commodity codes by `readSupplyUse`.
  */
 import type { LayoutPatterns, PatternSet, SupplyUseRead, TableSource } from '../io/index';
-import { guessShape, latestPeriod, readGrid, readLongGrid, readSupplyUse } from '../io/index';
+import { guessShape, readGrid, readLongSheet, readSupplyUse } from '../io/index';
 import type { Technology } from '../../engine/supply-use';
 import type { CliContext } from './context';
 import { UsageError } from './errors';
@@ -25,16 +25,14 @@ async function source(ctx: CliContext, name: string, role: 'make' | 'use', side:
   const g = await readGrid(file.bytes, { file: fileName, ...numbers, ...(sheet !== undefined ? { sheet } : {}) });
   const shape = side.valueColumn !== undefined || f.select ? 'long' : guessShape(g.grid);
   if (shape === 'long') {
-    const latest = latestPeriod(g.findings, fileName, f.select ?? {});
-    const select = latest?.select ?? f.select;
-    const long = readLongGrid(g.grid, {
+    const long = readLongSheet(g, {
       ...numbers,
       ...(side.valueColumn !== undefined ? { valueField: side.valueColumn } : {}),
-      ...(select ? { select } : {}),
+      ...(f.select ? { select: f.select } : {}),
       ...(f.zeroTexts ? { zeroTexts: f.zeroTexts } : {}),
       ...(f.blanks ? { blanks: f.blanks } : {}),
     });
-    long.findings.unshift(...g.findings, ...(latest ? [latest.note] : []));
+    long.findings.unshift(...g.findings);
     return { file, source: long, shape };
   }
   return { file, source: g.grid, shape };

@@ -48,7 +48,7 @@ export {
   writeMatrixJson,
 } from './write';
 export type { LabelledMatrix, CsvWriteOptions, SheetSpec, XlsxTableOptions } from './write';
-export { sniffFile, readGrid, guessShape, readTableFile, latestPeriod } from './open';
+export { sniffFile, readGrid, guessShape, readTableFile, latestPeriod, readLongSheet } from './open';
 export type { FileKind, GridOptions, GridRead, ReadFileOptions } from './open';
 export { unpackKeyed, unpackIfKeyed } from './keyed';
 export type { Unpacked } from './keyed';

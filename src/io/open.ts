@@ -9,7 +9,7 @@ import { type CsvOptions, readCsv } from './csv';
 import { EMPTY, type Grid, normalizeCode } from './grid';
 import { readTableJson } from './json';
 import { unpackIfKeyed } from './keyed';
-import { type LongOptions, readLongGrid } from './long';
+import { type LongOptions, type LongTable, readLongGrid } from './long';
 import type { MappingInput } from './mapping';
 import { type ReadTableOptions, readTable, type TableRead } from './tables';
 import { readXlsx } from './xlsx';
@@ -128,6 +128,17 @@ export function latestPeriod(findings: readonly Finding[], file: string, chosen:
   };
 }
 
+/**
+ * The long table of a sheet (with the findings its reader gave): for a keyed sheet of several
+ * periods with none chosen, the latest, with a note saying so first among the table's findings.
+ */
+export function readLongSheet(read: { grid: Grid; findings: readonly Finding[] }, options: Omit<LongOptions, 'file'>): LongTable {
+  const latest = latestPeriod(read.findings, read.grid.file, { ...(options.mapping?.select ?? {}), ...(options.select ?? {}) });
+  const t = readLongGrid(read.grid, latest ? { ...options, select: latest.select } : options);
+  if (latest) t.findings.unshift(latest.note);
+  return t;
+}
+
 /** Read a table from a file's bytes: JSON as written by the JSON writer, or a CSV or XLSX sheet, wide or long. */
 export async function readTableFile(bytes: Uint8Array, options: ReadFileOptions): Promise<TableRead & { shape: 'wide' | 'long' | 'json' }> {
   const kind = sniffFile(bytes, options.file);
@@ -139,13 +150,8 @@ export async function readTableFile(bytes: Uint8Array, options: ReadFileOptions)
   const shape = options.shape ?? options.mapping?.shape ?? guessShape(g.grid);
   if (shape === 'long') {
     const lo: Omit<LongOptions, 'file'> = { ...(options.decimal ? { decimal: options.decimal } : {}), ...(options.thousands !== undefined ? { thousands: options.thousands } : {}), ...(options.long ?? {}) };
-    const latest = latestPeriod(g.findings, options.file, { ...(options.mapping?.select ?? {}), ...(lo.select ?? {}) });
-    if (latest) {
-      lo.select = latest.select;
-      g.findings.push(latest.note);
-    }
     if (options.mapping) lo.mapping = options.mapping;
-    const long = readLongGrid(g.grid, lo);
+    const long = readLongSheet(g, lo);
     const r = readTable(long, options);
     return { ...r, findings: [...g.findings, ...r.findings], shape };
   }

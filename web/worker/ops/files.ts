@@ -12,8 +12,7 @@ import {
   guessShape,
   readCsv,
   unpackIfKeyed,
-  latestPeriod,
-  readLongGrid,
+  readLongSheet,
   readSupplyUse,
   readTable,
   readTableJson,
@@ -23,7 +22,7 @@ import {
   parseMapping,
   Grid,
 } from '../../../src/io/index';
-import type { DecimalMark, Delimiter, LayoutMapping, LongTable, MappingInput, TableSource } from '../../../src/io/index';
+import type { DecimalMark, Delimiter, LayoutMapping, MappingInput, TableSource } from '../../../src/io/index';
 import { PROJECT_FORMAT, readProject } from '../../../src/project/project';
 import type { Project } from '../../../src/project/project';
 import { parseJson } from '../../../src/project/json';
@@ -167,10 +166,7 @@ function info(s: OpenSheet): SheetInfo {
 function sourceOf(s: OpenSheet, mapping: MappingInput | undefined): TableSource {
   const shape = mapping?.shape ?? guessShape(s.grid);
   if (shape !== 'long') return s.grid;
-  const latest = latestPeriod(s.readFindings, s.name, mapping?.select ?? {});
-  const t = readLongGrid(s.grid, { ...(mapping ? { mapping } : {}), ...(latest ? { select: latest.select } : {}) }) as LongTable;
-  if (latest) t.findings.unshift(latest.note);
-  return t;
+  return readLongSheet({ grid: s.grid, findings: s.readFindings }, mapping ? { mapping } : {});
 }
 
 function checkedMapping(m: unknown, file: string): MappingInput | undefined {
