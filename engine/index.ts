@@ -34,6 +34,7 @@ export {
   valueAddedIndex,
   finalDemandIndex,
   satelliteIndex,
+  multiplierUnit,
 } from './measures';
 export type { Measure, MeasureInfo, MeasureKind, MeasureOptions } from './measures';
 export {

@@ -33,6 +33,11 @@ export interface MeasureInfo {
   money: boolean;
 }
 
+/** The unit of a measure's multipliers: `EUR millions per EUR millions of final demand`, `FTE jobs per EUR millions of final demand`. */
+export function multiplierUnit(m: MeasureInfo): string {
+  return m.money ? `${m.unit} per ${m.unit} of final demand` : `${m.perUnit.replace(/ of output$/, '')} of final demand`;
+}
+
 export interface Measure extends MeasureInfo {
   /** Per unit of output, by sector (length n). */
   coefficients: Float64Array;

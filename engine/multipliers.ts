@@ -19,7 +19,7 @@ import type { ClosedModel, Models } from './household';
 import type { LeontiefModel } from './leontief';
 import type { Matrix } from './linalg/matrix';
 import type { Measure, MeasureInfo } from './measures';
-import { axisCopy, CAUTIONS, checkMeasure, measureInfo } from './measures';
+import { axisCopy, CAUTIONS, checkMeasure, measureInfo, multiplierUnit } from './measures';
 import type { Axis } from './table';
 
 export const MULTIPLIERS_ABOUT =
@@ -67,7 +67,7 @@ export function multipliersOf(sectors: Axis, open: LeontiefModel, measure: Measu
     about: MULTIPLIERS_ABOUT,
     measure: measureInfo(measure),
     sectors: axisCopy(sectors),
-    unit: measure.money ? `${measure.unit} per ${measure.unit} of final demand` : `${measure.perUnit.replace(/ of output$/, '')} of final demand`,
+    unit: multiplierUnit(measure),
     direct,
     indirect,
     simple,

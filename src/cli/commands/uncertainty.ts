@@ -9,6 +9,7 @@ import { availableParallelism } from 'node:os';
 import type { Command } from 'commander';
 import { CancelledError } from '../../../engine/errors';
 import type { Measure } from '../../../engine/measures';
+import { multiplierUnit } from '../../../engine/measures';
 import type { MonteCarloResult, MonteCarloSpec, ProductivityRule } from '../../../engine/uncertainty';
 import { monteCarlo, UNCERTAINTY_ABOUT } from '../../../engine/uncertainty';
 import { monteCarloInWorkers } from '../../parallel/montecarlo-node';
@@ -73,7 +74,7 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
 
 /** The unit of a measure's multipliers and of its impacts. */
 function unitsOf(m: Measure): { multiplier: string; impact: string } {
-  return { multiplier: m.money ? `${m.unit} per ${m.unit} of final demand` : `${m.perUnit.replace(/ of output$/, '')} of final demand`, impact: m.unit };
+  return { multiplier: multiplierUnit(m), impact: m.unit };
 }
 
 async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {

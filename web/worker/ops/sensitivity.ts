@@ -17,6 +17,7 @@ import {
   distributionBins,
   influentialCoefficients,
   mergeDrawBlocks,
+  multiplierUnit,
   prepareMonteCarlo,
   resolveScenario,
   runDraws,
@@ -151,7 +152,7 @@ function resolveChoice(choice: TargetChoice, household: unknown): { target: Resu
   const c = m.coefficients;
   if (choice?.kind === 'multiplier') {
     const j = sectorAt(choice.sector);
-    const unit = m.money ? `${m.unit} per ${m.unit} of final demand` : `${m.perUnit.replace(/ of output$/, '')} of final demand`;
+    const unit = multiplierUnit(m);
     return { target: { kind: 'multiplier', sector: j, c }, label: `${m.label} multiplier of ${t.sectors.labels[j]} (${t.sectors.codes[j]}), simple (open model)`, unit };
   }
   if (choice?.kind === 'impact') {
@@ -292,7 +293,7 @@ export const sensitivityOps: Record<string, Handler> = {
     }
     const out: WhatIfResult = {
       about: WHATIF_ABOUT,
-      measure: { code: m.code, label: m.label, unit: m.money ? `${m.unit} per ${m.unit} of final demand` : `${m.perUnit.replace(/ of output$/, '')} of final demand` },
+      measure: { code: m.code, label: m.label, unit: multiplierUnit(m) },
       edits,
       baseOutput: openModel().outputMultipliers(),
       output: w.outputMultipliers(),
@@ -328,7 +329,7 @@ export const sensitivityOps: Record<string, Handler> = {
     }
     const a = analysisModels(args?.household as never);
     const m = measureFor(a.measures, args?.measure);
-    const unit = m.money ? `${m.unit} per ${m.unit} of final demand` : `${m.perUnit.replace(/ of output$/, '')} of final demand`;
+    const unit = multiplierUnit(m);
     const scen = (args.scenarios ?? []).map((s) => resolveScenario(t, s));
     const A = openModel().A;
     const spec: MonteCarloSpec = {
