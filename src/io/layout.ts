@@ -235,11 +235,9 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
           if (r === best.row) continue;
           let c = 0;
           while (c < Math.min(C, MAX_LEAD_COLS) && g.kind(r, c) === EMPTY) c++;
-          // ... provided its texts name rows too (a 'Code' heading over the leading columns alone,
-          // above a row of labels and a row of codes, does not make its row the codes).
-          // The heading names its column: the row is the codes only if its texts name the rows of
-          // the column under the heading (in a row of labels headed 'Code' over the code column,
-          // the labels name the rows of the label column, not of the code column).
+          // ... provided its texts name the rows of the column under the heading: a 'Code' heading
+          // over the leading columns of a row of labels (above or below the row of codes) does not
+          // make that row the codes.
           if (c < Math.min(C, MAX_LEAD_COLS) && /^codes?$/i.test(codeAt(g, r, c)) && pairs.some((p) => p.row === r && p.col === c && fits(p) && p.score >= best!.score * 0.5)) {
             if (labelRow === undefined) labelRow = best.row;
             if (codeColumn === undefined && labelColumn === undefined && best.col !== c) labelColumn = best.col;
@@ -686,8 +684,9 @@ function splitCodes(rows: Entry[], cols: Entry[], rowsAlone: boolean, colsAlone:
     ] as const) {
       if (!alone) continue;
       const words = list.map(cut).filter((m): m is RegExpExecArray => !!m).map((m) => m[1]!);
-      const hits = new Set(words.filter((w) => other.has(w)));
-      if (hits.size >= 2 && hits.size === words.filter((w) => other.has(w)).length && hits.size * 2 > words.length) return true;
+      const matched = words.filter((w) => other.has(w));
+      const hits = new Set(matched);
+      if (hits.size >= 2 && hits.size === matched.length && hits.size * 2 > words.length) return true;
     }
     return false;
   };
