@@ -23,7 +23,8 @@ export interface CommonFlags extends OutputOptions, TableFlags {
   locale?: string;
 }
 
-function collect(v: string, prev: string[] | undefined): string[] {
+/** Commander's collector for a repeatable option. */
+export function collect(v: string, prev: string[] | undefined): string[] {
   return [...(prev ?? []), v];
 }
 

@@ -7,7 +7,7 @@ import type { ResolvedScenario } from '../../../engine/scenario';
 import type { Section } from '../../report/model';
 import { buildReport, checksSection, comparisonSection, describeTable, multipliersSection, scenarioSection } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { checkedTable, examples, outputOptions, reportBase, reportInputs, reportWriters, settingsJson, tableLine, tableOptions } from '../common';
+import { checkedTable, collect, examples, outputOptions, reportBase, reportInputs, reportWriters, settingsJson, tableLine, tableOptions } from '../common';
 import type { CliContext } from '../context';
 import { styles } from '../context';
 import { UsageError } from '../errors';
@@ -26,10 +26,6 @@ interface Flags extends CommonFlags, ModelFlags {
 }
 
 const FORMATS = ['html', 'xlsx', 'json', 'csv'] as const;
-
-function collect(v: string, prev: string[] | undefined): string[] {
-  return [...(prev ?? []), v];
-}
 
 export function register(p: Command, run: (a: Action, json: boolean) => void): void {
   const cmd = p

@@ -12,7 +12,7 @@ import { tornado } from '../../../engine/tornado';
 import type { Section } from '../../report/model';
 import { buildReport, checksSection, comparisonSection, linkagesSection, multipliersSection, scenarioSection, setting, tornadoSection } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { checkedTable, examples, numberOption, outputOptions, reportBase, reportInputs, reportWriters, tableOptions } from '../common';
+import { checkedTable, collect, examples, numberOption, outputOptions, reportBase, reportInputs, reportWriters, tableOptions } from '../common';
 import type { CliContext } from '../context';
 import { UsageError } from '../errors';
 import { reportInput } from '../files';
@@ -35,10 +35,6 @@ interface Flags extends CommonFlags, ModelFlags {
 }
 
 const FORMATS = ['html', 'xlsx', 'json', 'csv'] as const;
-
-function collect(v: string, prev: string[] | undefined): string[] {
-  return [...(prev ?? []), v];
-}
 
 export function register(p: Command, run: (a: Action, json: boolean) => void): void {
   const cmd = p

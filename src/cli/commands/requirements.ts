@@ -11,7 +11,7 @@ import { REQUIREMENTS_KINDS, supplyUse } from '../../../engine/supply-use';
 import type { TableSummary } from '../../report/model';
 import { buildReport, checksSection, matrixSection, setting } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { examples, numberOption, outputOptions, reportBase } from '../common';
+import { collect, examples, numberOption, outputOptions, reportBase } from '../common';
 import type { CliContext } from '../context';
 import { styles } from '../context';
 import { UsageError } from '../errors';
@@ -72,10 +72,10 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
     .option('--use-sheet <name>', 'the sheet of the use workbook')
     .option('--make-value-column <n>', 'the field of the make long file that holds the values, counted from 1 (default: detected)')
     .option('--blanks <rule>', 'empty cells in the tables: error (default) or zero')
-    .option('--zero-text <text>', "a text that means zero in the tables' cells, such as - or .. (repeatable)", (v: string, prev: string[] | undefined) => [...(prev ?? []), v])
+    .option('--zero-text <text>', "a text that means zero in the tables' cells, such as - or .. (repeatable)", collect)
     .option('--decimal <mark>', "the decimal mark of CSV or TSV files: '.' or ',' (default: seen in the numbers)")
     .option('--thousands <separator>', "the thousands separator: one character or 'none' (default: seen in the numbers)")
-    .option('--select <field=value>', 'long files: read only the lines whose field holds this text, such as TIME_PERIOD=2020 (repeatable)', (v: string, prev: string[] | undefined) => [...(prev ?? []), v])
+    .option('--select <field=value>', 'long files: read only the lines whose field holds this text, such as TIME_PERIOD=2020 (repeatable)', collect)
     .option('--use-value-column <n>', 'the field of the use long file that holds the values, counted from 1 (default: detected)');
   outputOptions(cmd, FORMATS, { locale: true });
   examples(cmd, [

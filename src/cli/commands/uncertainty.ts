@@ -15,7 +15,7 @@ import { monteCarlo, UNCERTAINTY_ABOUT } from '../../../engine/uncertainty';
 import { monteCarloInWorkers } from '../../parallel/montecarlo-node';
 import { buildReport, checksSection, describeTable, setting, uncertaintySection } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { checkedTable, examples, numberOption, outputOptions, reportBase, reportInputs, reportWriters, settingsJson, tableLine, tableOptions } from '../common';
+import { checkedTable, collect, examples, numberOption, outputOptions, reportBase, reportInputs, reportWriters, settingsJson, tableLine, tableOptions } from '../common';
 import type { CliContext } from '../context';
 import { styles } from '../context';
 import { UsageError } from '../errors';
@@ -40,10 +40,6 @@ interface Flags extends CommonFlags, Omit<ModelFlags, 'household' | 'householdCo
 
 const FORMATS = ['html', 'xlsx', 'json', 'csv'] as const;
 const MAX_WORKERS = 16;
-
-function collect(v: string, prev: string[] | undefined): string[] {
-  return [...(prev ?? []), v];
-}
 
 export function register(p: Command, run: (a: Action, json: boolean) => void): void {
   const cmd = p
