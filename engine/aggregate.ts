@@ -15,6 +15,7 @@
 import { InputError } from './errors';
 import type { Axis, Table } from './table';
 import { validateTable } from './table';
+import { classedAxisCopy } from './measures';
 
 export interface Concordance {
   /** Sector codes of the detailed table... */
@@ -118,9 +119,9 @@ export function aggregate(t: Table, c: Concordance): Table {
   const out: Table = {
     sectors: { codes: groupCodes, labels },
     Z: { rows: N, cols: N, data: Z },
-    finalDemand: { codes: [...t.finalDemand.codes], labels: [...t.finalDemand.labels] },
+    finalDemand: classedAxisCopy(t.finalDemand),
     F: { rows: N, cols: k, data: F },
-    valueAdded: { codes: [...t.valueAdded.codes], labels: [...t.valueAdded.labels] },
+    valueAdded: classedAxisCopy(t.valueAdded),
     V: { rows: m, cols: N, data: V },
     x: sumRow(t.x),
     satellites: t.satellites.map((s) => ({ code: s.code, label: s.label, unit: s.unit, values: sumRow(s.values) })),

@@ -14,8 +14,8 @@
  * This file also holds the cautions that every user-facing result carries (`CAUTIONS`).
  */
 import { InputError } from './errors';
-import type { Axis, Table } from './table';
-import { moneyUnit, perUnit } from './table';
+import type { Axis, ClassedAxis, Table } from './table';
+import { isValueAddedRow, moneyUnit, perUnit } from './table';
 
 export type MeasureKind = 'output' | 'value-added' | 'labour-income' | 'jobs' | 'satellite';
 
@@ -66,6 +66,13 @@ export function measureInfo(m: MeasureInfo): MeasureInfo {
 /** A plain copy of an axis (codes and labels). */
 export function axisCopy(a: Axis): Axis {
   return { codes: [...a.codes], labels: [...a.labels] };
+}
+
+/** A copy of an axis with its classes, when it has them. */
+export function classedAxisCopy<C extends string>(a: ClassedAxis<C>): ClassedAxis<C> {
+  const out: ClassedAxis<C> = { codes: [...a.codes], labels: [...a.labels] };
+  if (a.classes) out.classes = [...a.classes];
+  return out;
 }
 
 /** Output itself: coefficient 1 for every sector. */
@@ -139,8 +146,12 @@ export function valueAddedMeasure(t: Table, rows?: string | string[]): Measure {
   if (!t.valueAdded.codes.length) {
     throw new InputError('no-value-added', 'the table has no value-added rows, so value added cannot be measured', {}, 'Add value-added rows (such as compensation of employees) to the table');
   }
-  const idx = list ? list.map((r) => valueAddedIndex(t, r)) : t.valueAdded.codes.map((_, i) => i);
+  const idx = list ? list.map((r) => valueAddedIndex(t, r)) : t.valueAdded.codes.map((_, i) => i).filter((i) => isValueAddedRow(t, i));
+  if (!idx.length && !list) {
+    throw new InputError('no-value-added', 'none of the primary-input rows of the table is value added (they are imports, product taxes or the like)', {}, 'Name the value-added rows (--value-added-rows), or class a row as value added in the mapping');
+  }
   if (!idx.length) throw new InputError('no-value-added', 'an empty list of value-added rows was given', {}, 'Name at least one value-added row, or none for all of them');
+  const left = list ? [] : t.valueAdded.codes.filter((_, i) => !isValueAddedRow(t, i));
   const money = moneyUnit(t.meta);
   const codes = idx.map((i) => t.valueAdded.codes[i]!);
   return {
@@ -154,7 +165,9 @@ export function valueAddedMeasure(t: Table, rows?: string | string[]): Measure {
     from: codes,
     about: list
       ? `Value added counted as the rows ${codes.map((c) => `'${c}'`).join(', ')}, per unit of output.`
-      : 'Value added (all value-added rows of the table): the income the sectors generate, per unit of output.',
+      : left.length
+        ? `Value added (the rows ${codes.map((c) => `'${c}'`).join(', ')}; ${left.map((c) => `'${c}'`).join(', ')} ${left.length > 1 ? 'are' : 'is'} not value added): the income the sectors generate, per unit of output.`
+        : 'Value added (all value-added rows of the table): the income the sectors generate, per unit of output.',
   };
 }
 

@@ -12,6 +12,14 @@
  *   with its unit.
  * - `meta`: currency, unit scale, year, region, price basis, source.
  *
+ * Rows of V are the primary inputs. Each may carry a class (`valueAdded.classes`), the trade's
+ * class of that row: compensation of employees, operating surplus and mixed income, other taxes
+ * less subsidies on production (together value added at basic prices), or a primary input that
+ * is not value added: imports, taxes less subsidies on products, sales by final buyers. A row
+ * without a class counts as value added, as before classes existed. Final-demand columns may
+ * carry a class too (`finalDemand.classes`): households, government, non-profit institutions
+ * serving households, investment, inventories, exports.
+ *
  * Balances (common practice): row i, Σⱼ zᵢⱼ + Σ fᵢ = xᵢ; column j, Σᵢ zᵢⱼ + Σ vⱼ (+ importsⱼ) = xⱼ.
  *
  * A table read from technical coefficients without outputs carries `meta.outputAssumed`:
@@ -24,6 +32,63 @@ import { fromRows, zeros } from './linalg/matrix';
 export interface Axis {
   codes: string[];
   labels: string[];
+}
+
+/**
+ * The class of a primary-input row (common practice; the 2008 SNA's breakdown of value added
+ * at basic prices and of the other rows between intermediate use and output):
+ * - `compensation`: compensation of employees (D1), the usual labour income;
+ * - `operating-surplus`: gross operating surplus and mixed income (B2g, B3g);
+ * - `production-taxes`: other taxes less subsidies on production (D29 − D39);
+ * - `value-added`: value added or a part of it whose component is not known;
+ * - `product-taxes`: taxes less subsidies on products (D21 − D31), not value added;
+ * - `imports`: imported intermediate inputs by origin or kind, with their duties, not value added;
+ * - `final-buyers`: sales by final buyers and other purchases adjustments, not value added;
+ * - `other`: any other primary input, not value added.
+ */
+export type InputClass =
+  | 'compensation'
+  | 'operating-surplus'
+  | 'production-taxes'
+  | 'value-added'
+  | 'product-taxes'
+  | 'imports'
+  | 'final-buyers'
+  | 'other';
+
+export const INPUT_CLASSES: readonly InputClass[] = [
+  'compensation',
+  'operating-surplus',
+  'production-taxes',
+  'value-added',
+  'product-taxes',
+  'imports',
+  'final-buyers',
+  'other',
+];
+
+/** The classes whose rows make value added at basic prices (a row without a class counts too). */
+export const VALUE_ADDED_CLASSES: readonly InputClass[] = ['compensation', 'operating-surplus', 'production-taxes', 'value-added'];
+
+/**
+ * The class of a final-demand column (common practice; 2008 SNA P3 by sector, P5, P6):
+ * households (P3 S14), government (P3 S13), non-profit institutions serving households
+ * (P3 S15), investment (gross fixed capital formation, P51g), inventories (changes in
+ * inventories and valuables, P52, P53), exports (P6), other.
+ */
+export type DemandClass = 'households' | 'government' | 'npish' | 'investment' | 'inventories' | 'exports' | 'other';
+
+export const DEMAND_CLASSES: readonly DemandClass[] = ['households', 'government', 'npish', 'investment', 'inventories', 'exports', 'other'];
+
+/** An axis whose entries may each carry a class (`undefined` where none is known). */
+export interface ClassedAxis<C extends string> extends Axis {
+  classes?: (C | undefined)[];
+}
+
+/** True when primary-input row `a` of the table counts as value added (its class, or no class). */
+export function isValueAddedRow(t: { valueAdded: ClassedAxis<InputClass> }, a: number): boolean {
+  const c = t.valueAdded.classes?.[a];
+  return c === undefined || VALUE_ADDED_CLASSES.includes(c);
 }
 
 export interface Satellite {
@@ -64,9 +129,10 @@ export interface TableMeta {
 export interface Table {
   sectors: Axis;
   Z: Matrix;
-  finalDemand: Axis;
+  finalDemand: ClassedAxis<DemandClass>;
   F: Matrix;
-  valueAdded: Axis;
+  /** The primary-input rows: value added and, when classed so, imports, product taxes and the like. */
+  valueAdded: ClassedAxis<InputClass>;
   V: Matrix;
   imports?: Float64Array;
   x: Float64Array;
@@ -78,8 +144,8 @@ export interface Table {
 export interface PlainTable {
   sectors: { codes: string[]; labels?: string[] };
   Z: number[][];
-  finalDemand?: { codes: string[]; labels?: string[]; values: number[][] };
-  valueAdded?: { codes: string[]; labels?: string[]; values: number[][] };
+  finalDemand?: { codes: string[]; labels?: string[]; classes?: (DemandClass | null)[]; values: number[][] };
+  valueAdded?: { codes: string[]; labels?: string[]; classes?: (InputClass | null)[]; values: number[][] };
   imports?: number[];
   /** When absent, x is taken as the row totals Σⱼ zᵢⱼ + Σ fᵢ. */
   x?: number[];
@@ -123,6 +189,8 @@ export function makeTable(p: PlainTable): Table {
     meta: { ...(p.meta ?? {}) },
   };
   if (p.imports) t.imports = Float64Array.from(p.imports);
+  if (fd.classes) t.finalDemand.classes = fd.classes.map((c) => c ?? undefined);
+  if (va.classes) t.valueAdded.classes = va.classes.map((c) => c ?? undefined);
   if (n !== Z.rows) {
     throw new InputError('bad-size', `there are ${n} sector codes but Z has ${Z.rows} rows`);
   }
@@ -147,6 +215,8 @@ export function toPlain(t: Table): PlainTable {
     meta: { ...t.meta },
   };
   if (t.imports) p.imports = Array.from(t.imports);
+  if (t.finalDemand.classes) p.finalDemand!.classes = t.finalDemand.classes.map((c) => c ?? null);
+  if (t.valueAdded.classes) p.valueAdded!.classes = t.valueAdded.classes.map((c) => c ?? null);
   return p;
 }
 
@@ -177,6 +247,8 @@ export function validateTable(t: Table): void {
   if (t.V.rows !== m || t.V.cols !== n) {
     throw new InputError('bad-size', `value added must be ${m} × ${n}; it is ${t.V.rows} × ${t.V.cols}`);
   }
+  checkClasses(t.finalDemand, DEMAND_CLASSES, 'final-demand');
+  checkClasses(t.valueAdded, INPUT_CLASSES, 'value-added');
   if (t.x.length !== n) throw new InputError('bad-size', `total output has ${t.x.length} values for ${n} sectors`);
   if (t.imports && t.imports.length !== n) throw new InputError('bad-size', `the imports row has ${t.imports.length} values for ${n} sectors`);
   const satCodes: string[] = [];
@@ -190,6 +262,18 @@ export function validateTable(t: Table): void {
     satCodes.push(s.code);
   }
   uniqueCodes(satCodes, 'satellite');
+}
+
+function checkClasses<C extends string>(axis: ClassedAxis<C>, known: readonly C[], what: string): void {
+  if (!axis.classes) return;
+  if (axis.classes.length !== axis.codes.length) {
+    throw new InputError('bad-size', `there are ${axis.codes.length} ${what} codes but ${axis.classes.length} classes`);
+  }
+  axis.classes.forEach((c, i) => {
+    if (c !== undefined && !known.includes(c)) {
+      throw new InputError('unknown-class', `${what} '${axis.codes[i]}' has the class '${String(c)}', which is not known`, { text: String(c) }, `Use one of: ${known.join(', ')}`);
+    }
+  });
 }
 
 function uniqueCodes(codes: string[], what: string): void {

@@ -67,7 +67,11 @@ export function readTableJson(text: string, file = 'table.json'): Table {
       values: key === 'finalDemand' ? rowsOf(b.values, file, `${key}.values`, n, c.length, sc) : rowsOf(b.values, file, `${key}.values`, c.length, n, c),
     };
     if (b.labels !== undefined) block.labels = codes(b.labels, file, `${key}.labels`);
-    plain[key] = block;
+    if (b.classes !== undefined) {
+      if (!Array.isArray(b.classes) || b.classes.some((x) => x !== null && typeof x !== 'string')) fail(file, `${key}.classes must be a list of texts (or null where no class is known)`);
+      (block as { classes?: (string | null)[] }).classes = b.classes as (string | null)[];
+    }
+    (plain as unknown as Record<string, unknown>)[key] = block;
   }
   if (p.imports !== undefined) plain.imports = numbers(p.imports, file, 'imports', n);
   if (p.x !== undefined) plain.x = numbers(p.x, file, 'x', n);
