@@ -46,4 +46,4 @@ table(
 console.log(`peak RSS of this process (tables included): ${rss.toFixed(0)} MB`);
 target('n = 10,000: multipliers plus one scenario in at most 10 s', total10k <= 10_000, `${(total10k / 1000).toFixed(2)} s`);
 target('n = 10,000: peak memory at most 3 GB', rss <= 3072, `${rss.toFixed(0)} MB peak RSS`);
-console.log('target: n = 5,000 in the browser worker in at most 15 s: to be measured in Chromium through src/parallel/large-web-worker.ts (see DEVELOPERS.md, Large tables and fast kernels)');
+console.log('target: n = 5,000 in the browser worker in at most 15 s: to be measured in Chromium through src/parallel/large-web-worker.ts (see engine/linalg/README.md, Large tables and fast kernels)');
