@@ -5,7 +5,14 @@
  * has `DecompressionStream`, each deflated part is inflated once, counting bytes and stopping
  * as soon as it produces more than it declared, so that an archive that lies about its sizes
  * cannot expand past the limit either.
+ *
+ * The ratio is held for each part larger than 1 MiB and for the archive as a whole (every part
+ * counted, however small), so that many small parts that each expand a thousand times cannot
+ * pass one by one. `inflatePart` streams one part through fflate in slices, counting what it
+ * produces against what the directory declares: the streaming XLSX reader inflates only the
+ * parts it reads, and never more than they declared.
  */
+import { Inflate } from 'fflate';
 import { InputError } from '../../engine/errors';
 import { sizeText } from './limits';
 
@@ -101,8 +108,10 @@ export interface ZipLimits {
 /** Hold the declared sizes to the limits. */
 export function checkZipSizes(entries: ZipEntry[], file: string, limits: ZipLimits): void {
   let total = 0;
+  let packed = 0;
   for (const e of entries) {
     total += e.size;
+    packed += e.compressedSize;
     if (total > limits.maxExpandedBytes) {
       throw new InputError(
         'xlsx-expands-too-far',
@@ -119,6 +128,75 @@ export function checkZipSizes(entries: ZipEntry[], file: string, limits: ZipLimi
         'Raise the limit (maxCompressionRatio) if the workbook is genuine, or export the sheet as CSV',
       );
     }
+  }
+  // Every part counted: a thousand small parts that each expand a thousand times are one bomb.
+  if (total > 1024 * 1024 && total / Math.max(1, packed) > limits.maxCompressionRatio) {
+    throw new InputError(
+      'xlsx-expands-too-far',
+      `file ${file}: its ${entries.length} parts expand ${Math.round(total / Math.max(1, packed))} times together (${sizeText(packed)} to ${sizeText(total)}), more than the limit of ${limits.maxCompressionRatio} times; this is how a zip bomb looks`,
+      { file },
+      'Raise the limit (maxCompressionRatio) if the workbook is genuine, or export the sheet as CSV',
+    );
+  }
+}
+
+/** Thrown by an `inflatePart` consumer to stop reading a part early (it has what it needs). */
+export const STOP_PART: unique symbol = Symbol('stop reading this part');
+
+/** Where a part's compressed bytes are in the archive. */
+export function partRange(b: Uint8Array, e: ZipEntry, file: string): { start: number; end: number } {
+  const dv = new DataView(b.buffer, b.byteOffset, b.byteLength);
+  const h = e.localOffset;
+  if (h + 30 > b.length || dv.getUint32(h, true) !== 0x04034b50) throw bad(file, `part '${e.name}' is damaged`);
+  const start = h + 30 + dv.getUint16(h + 26, true) + dv.getUint16(h + 28, true);
+  const end = start + e.compressedSize;
+  if (end > b.length) throw bad(file, `part '${e.name}' is cut short`);
+  return { start, end };
+}
+
+function expandsPast(file: string, e: ZipEntry): InputError {
+  return new InputError(
+    'xlsx-expands-too-far',
+    `file ${file}: its part '${e.name}' expands past the ${sizeText(e.size)} its directory declares; the archive is not what it says it is`,
+    { file },
+    'Open it in a spreadsheet program and save it again as .xlsx, or export the sheet as CSV',
+  );
+}
+
+/**
+ * Stream one part's bytes to `onChunk`, inflating deflated parts in slices of `slice` compressed
+ * bytes; stops with an error as soon as the part produces more than its declared size. The
+ * consumer may throw STOP_PART to end early; returns false then, true when the part was read whole.
+ */
+export function inflatePart(b: Uint8Array, e: ZipEntry, file: string, onChunk: (chunk: Uint8Array) => void, slice = 256 * 1024): boolean {
+  const { start, end } = partRange(b, e, file);
+  let got = 0;
+  try {
+    if (e.method === 0) {
+      if (e.compressedSize !== e.size) throw bad(file, `part '${e.name}' is stored with two different sizes`);
+      for (let p = start; p < end; p += slice) onChunk(b.subarray(p, Math.min(end, p + slice)));
+      return true;
+    }
+    if (e.method !== 8) throw bad(file, `part '${e.name}' is compressed by a method this reader does not know (${e.method})`);
+    const inf = new Inflate((chunk) => {
+      got += chunk.length;
+      if (got > e.size) throw expandsPast(file, e);
+      if (chunk.length) onChunk(chunk);
+    });
+    for (let p = start; p < end; p += slice) {
+      const q = Math.min(end, p + slice);
+      try {
+        inf.push(b.subarray(p, q), q === end);
+      } catch (x) {
+        if (x === STOP_PART || x instanceof InputError) throw x;
+        throw bad(file, `part '${e.name}' does not inflate (${(x as Error).message})`);
+      }
+    }
+    if (start === end) inf.push(new Uint8Array(0), true);
+    return true;
+  } catch (x) {
+    if (x === STOP_PART) return false;
+    throw x;
   }
 }
 

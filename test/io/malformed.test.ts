@@ -71,6 +71,12 @@ function zip(entries: { name: string; data: Uint8Array; declared?: number; store
   return out;
 }
 
+/** The workbook part and its relationships for one sheet at xl/worksheets/sheet1.xml (ECMA-376's minimum). */
+const oneSheetWorkbook = [
+  { name: 'xl/workbook.xml', data: enc.encode('<workbook xmlns:r="r"><sheets><sheet name="S" sheetId="1" r:id="rId1"/></sheets></workbook>') },
+  { name: 'xl/_rels/workbook.xml.rels', data: enc.encode('<Relationships><Relationship Id="rId1" Type="http://schemas.openxmlformats.org/officeDocument/2006/relationships/worksheet" Target="worksheets/sheet1.xml"/></Relationships>') },
+];
+
 async function realXlsx(rows: Cell[][] = [['code', 'A'], ['A', 1]]): Promise<Uint8Array> {
   const wb = new ExcelJS.Workbook();
   const ws = wb.addWorksheet('Sheet1');
@@ -160,7 +166,7 @@ const cases: Case[] = [
   { name: 'a workbook cut short', run: async () => { const b = await realXlsx(); return readXlsx(b.subarray(0, Math.floor(b.length / 2)), { file: 'cut.xlsx' }); }, code: 'bad-xlsx', message: /file cut\.xlsx is not a readable XLSX workbook: the zip directory is missing/ },
   { name: 'a zip that would expand past the limit', run: () => readXlsx(zip([{ name: 'xl/workbook.xml', data: enc.encode('<x/>'), declared: 3_000_000_000 }]), { file: 'bomb.xlsx' }), code: 'xlsx-expands-too-far', message: /file bomb\.xlsx would expand to more than 2\.15 GB/ },
   { name: 'a zip part with a compression ratio of a zip bomb', run: () => readXlsx(zip([{ name: 'xl/worksheets/sheet1.xml', data: new Uint8Array(30 * 1024 * 1024) }, { name: 'xl/workbook.xml', data: enc.encode('<x/>') }]), { file: 'ratio.xlsx' }), code: 'xlsx-expands-too-far', message: /part 'xl\/worksheets\/sheet1\.xml' expands \d+ times/ },
-  { name: 'a zip part that inflates past its declared size', run: () => readXlsx(zip([{ name: 'xl/worksheets/sheet1.xml', data: new Uint8Array(5 * 1024 * 1024), declared: 1000 }, { name: 'xl/workbook.xml', data: enc.encode('<x/>') }]), { file: 'liar.xlsx' }), code: 'xlsx-expands-too-far', message: /part 'xl\/worksheets\/sheet1\.xml' expands past the 1\.0 kB its directory declares/ },
+  { name: 'a zip part that inflates past its declared size', run: () => readXlsx(zip([{ name: 'xl/worksheets/sheet1.xml', data: new Uint8Array(5 * 1024 * 1024), declared: 1000 }, ...oneSheetWorkbook]), { file: 'liar.xlsx' }), code: 'xlsx-expands-too-far', message: /part 'xl\/worksheets\/sheet1\.xml' expands past the 1\.0 kB its directory declares/ },
   { name: 'a zip that is not a workbook', run: () => readXlsx(zip([{ name: 'readme.txt', data: enc.encode('hi'), stored: true }]), { file: 'z.xlsx' }), code: 'not-xlsx', message: /file z\.xlsx is a zip archive but not an XLSX workbook \(it has no xl\/workbook\.xml\)/ },
   { name: 'a sheet name the workbook does not have', run: async () => readXlsx(await realXlsx(), { file: 'w.xlsx', sheet: 'Nope' }), code: 'unknown-sheet', message: /file w\.xlsx has no sheet 'Nope'; its sheets are 'Sheet1'/ },
   { name: 'a sheet number past the last', run: async () => readXlsx(await realXlsx(), { file: 'w.xlsx', sheet: 3 }), code: 'unknown-sheet', message: /file w\.xlsx has no sheet 3; it has 1 sheet: 'Sheet1'/ },
