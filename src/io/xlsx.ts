@@ -408,7 +408,7 @@ function refColumn(ref: string): number {
   return i === 0 ? -1 : c - 1;
 }
 
-function scanSheet(pkg: Package, info: XlsxSheetInfo, sst: string[], dates: boolean[], options: XlsxOptions, limits: Required<Limits>): SheetScan {
+function scanSheet(pkg: Package, info: XlsxSheetInfo, sst: string[], dates: boolean[], options: XlsxOptions, limits: Required<Limits>, untilCell = false): SheetScan {
   const { file } = options;
   const sheet = info.name;
   const numbers = new NumberReader(options, (r, c, text) => ({ ...whereAt(file, r, c, text), sheet }));
@@ -484,6 +484,10 @@ function scanSheet(pkg: Package, info: XlsxSheetInfo, sst: string[], dates: bool
       const t = CELL_ATTR_T.exec(attrs)?.[1] ?? 'n';
       if (f !== null) formulas++;
       if (v === null && is === null && f === null) return;
+      if (untilCell) {
+        builder.text('cell');
+        throw STOP_PART;
+      }
       while (builder.col < c) builder.empty();
       if (f !== null && (v === null || (v === '' && t !== 'str'))) return text(`=${unescapeXml(f)}`, r, c);
       switch (t) {
@@ -586,7 +590,9 @@ export async function readXlsx(bytes: Uint8Array, options: XlsxOptions): Promise
     };
     const tabular = pkg.sheets.find((s) => numericRows(look(s)) >= 2);
     info = tabular ?? pkg.sheets.find((s) => hasCells(look(s))) ?? pkg.sheets[0];
-    const others = pkg.sheets.filter((s) => s !== info && hasCells(look(s))).map((s) => s.name);
+    // The other sheets named in the note are those with cells: after the one chosen, read up to their first cell only.
+    const at = info ? pkg.sheets.indexOf(info) : -1;
+    const others = pkg.sheets.filter((s, i) => s !== info && hasCells(i < at || seen.has(s) ? look(s) : scanSheet(pkg, s, sst, dates, peek, limits, true).rows)).map((s) => s.name);
     if (info && others.length) {
       findings.push({ code: 'sheet-chosen', severity: 'note', message: `file ${file}: read sheet '${info.name}', the first ${tabular ? 'that holds a table of numbers' : 'with cells'}; the workbook also has ${others.map((s) => `'${s}'`).join(', ')} (choose one with sheet)`, where: { file, sheet: info.name } });
     }
