@@ -18,11 +18,14 @@ export interface NodeParallelOptions extends ParallelOptions {
   workers?: number;
 }
 
-const BOOT = new URL('./worker-boot.mjs', import.meta.url);
-const ENTRY = new URL('./montecarlo-node-worker.ts', import.meta.url).href;
+declare const RIPPLEWISE_COMPILED: boolean | undefined;
 
 function nodePort(): WorkerPort {
-  const w = new Worker(BOOT, { workerData: { entry: ENTRY } });
+  // The compiled command (scripts/build-cli.mjs) has the worker bundled beside it.
+  const w =
+    typeof RIPPLEWISE_COMPILED !== 'undefined' && RIPPLEWISE_COMPILED
+      ? new Worker(new URL('./montecarlo-worker.mjs', import.meta.url))
+      : new Worker(new URL('./worker-boot.mjs', import.meta.url), { workerData: { entry: new URL('./montecarlo-node-worker.ts', import.meta.url).href } });
   let alive = true;
   return {
     post: (m) => w.postMessage(m),
