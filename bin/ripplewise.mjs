@@ -27,14 +27,14 @@ if (argv.length === 1 && (argv[0] === '--version' || argv[0] === '-V')) {
   // The version alone needs no program.
   process.stdout.write(`${JSON.parse(readFileSync(new URL('package.json', root), 'utf8')).version}\n`);
 } else if (buildIsCurrent()) {
-  const { main } = await import(new URL('dist/cli/main.mjs', root).href);
-  process.exitCode = await main(argv);
+  const { runProcess } = await import(new URL('dist/cli/main.mjs', root).href);
+  process.exitCode = await runProcess(argv);
 } else {
   if (process.stderr.isTTY && process.env.RIPPLEWISE_SOURCES !== '1') {
     process.stderr.write('note: running the TypeScript sources (the build in dist/cli is missing or older than them; npm run build:cli makes it)\n');
   }
   const { register } = await import('tsx/esm/api');
   register();
-  const { main } = await import('../src/cli/main.ts');
-  process.exitCode = await main(argv);
+  const { runProcess } = await import('../src/cli/main.ts');
+  process.exitCode = await runProcess(argv);
 }

@@ -83,7 +83,37 @@ export function errorReport(e: unknown): ErrorReport {
     };
     return { code: err.code.toLowerCase(), message: what[err.code] ?? `${err.syscall} ${path}: ${err.message}`, exitCode: EXIT_USAGE, where: { file: path } };
   }
-  // Anything else is a bug: say so plainly, with the message, rather than a stack trace.
+  return faultReport(e);
+}
+
+/**
+ * What is left: memory or stack exhausted while building a result (V8's RangeErrors), said as a
+ * size problem with exit 2; anything else is a fault in the program, said as "internal error"
+ * with a short id (from the message and the first frame of the stack, so one fault keeps one id)
+ * and never with the stack itself.
+ */
+export function faultReport(e: unknown): ErrorReport {
   const msg = e instanceof Error ? e.message : String(e);
-  return { code: 'internal', message: `unexpected error: ${msg}`, exitCode: EXIT_USAGE, hint: 'This is a fault in ripplewise; please report it with the command you ran' };
+  if (e instanceof RangeError && /Invalid string length|Invalid array length|Invalid typed array length|Array buffer allocation failed|allocation failed/i.test(msg)) {
+    return {
+      code: 'too-large-result',
+      message: `the result is too large to build in this process's memory (${msg})`,
+      exitCode: EXIT_USAGE,
+      hint: 'Ask for fewer scenarios or sectors at once, or a leaner format (CSV rather than HTML or XLSX)',
+    };
+  }
+  if (e instanceof RangeError && /call stack/i.test(msg)) {
+    return { code: 'too-deep', message: `the input is nested too deeply to follow (${msg})`, exitCode: EXIT_USAGE, hint: 'Check the file; the formats of this program nest a few levels deep' };
+  }
+  return { code: 'internal', message: `internal error ${faultId(e)}: ${msg}`, exitCode: EXIT_USAGE, hint: 'This is a fault in ripplewise, not in your data; please report it with this id and the command you ran' };
+}
+
+/** A short id for a fault: 8 hex digits of an FNV-1a hash of its kind, message and first stack frame. */
+export function faultId(e: unknown): string {
+  const err = e instanceof Error ? e : undefined;
+  const frame = err?.stack?.split('\n').find((l) => /^\s+at /.test(l))?.replace(/:\d+:\d+\)?$/, '') ?? '';
+  const text = `${err?.name ?? typeof e}|${err ? err.message : String(e)}|${frame.trim()}`;
+  let h = 0x811c9dc5;
+  for (let i = 0; i < text.length; i++) h = Math.imul(h ^ text.charCodeAt(i), 0x01000193);
+  return (h >>> 0).toString(16).padStart(8, '0');
 }

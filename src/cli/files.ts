@@ -2,10 +2,16 @@
  * Files in and out: an input is a path or `-` (standard input), read whole (src/io's `readPath`,
  * with its size limit), with its SHA-256 (node:crypto) for the report; an output is a path or `-` (standard output), its format from
  * the extension or `--format`.
+ *
+ * Outputs are never written in place: each is written whole to a temporary file in its own
+ * folder (`.NAME.PID-RANDOM.tmp`), then renamed over the target (a rename within a folder is
+ * atomic), so a kill or a failure leaves the old file as it was. An output that is one of the
+ * inputs read (the same file, by device and inode, through any name or link) is refused, and so
+ * is one path given twice.
  */
-import { createHash } from 'node:crypto';
-import { mkdir, stat, writeFile } from 'node:fs/promises';
-import { basename, dirname, extname } from 'node:path';
+import { createHash, randomBytes } from 'node:crypto';
+import { chmod, mkdir, rename, stat, unlink, writeFile } from 'node:fs/promises';
+import { basename, dirname, extname, join } from 'node:path';
 import { checkBytes, limitsOf } from '../io/limits';
 import { readPath } from '../io/node';
 import type { ReportInputFile } from '../report/model';
@@ -21,6 +27,17 @@ export interface InputFile {
   bytes: Uint8Array;
   sha256: string;
 }
+
+interface InputSeen {
+  name: string;
+  role: string;
+  path: string;
+  dev: number;
+  ino: number;
+}
+
+/** The files each run has read, to refuse an output that would replace one of them. */
+const inputsRead = new WeakMap<CliContext, InputSeen[]>();
 
 export function sha256Hex(bytes: Uint8Array): string {
   return createHash('sha256').update(bytes).digest('hex');
@@ -54,6 +71,9 @@ export async function readInput(ctx: CliContext, name: string, role: string): Pr
     throw e;
   }
   if (info.isDirectory()) throw new UsageError(`the ${role} '${name}' is a folder, not a file`, 'not-a-file');
+  const read = inputsRead.get(ctx) ?? [];
+  read.push({ name, role, path, dev: info.dev, ino: info.ino });
+  inputsRead.set(ctx, read);
   const bytes = await readPath(path);
   return { name, path, bytes, sha256: sha256Hex(bytes) };
 }
@@ -97,16 +117,69 @@ export function outputFormat(out: string | undefined, format: string | undefined
   return f;
 }
 
-/** Write text or bytes to a file (creating its folder) or to standard output for `-`. */
-export async function writeOutput(ctx: CliContext, out: string, data: string | Uint8Array, format: OutputFormat): Promise<{ name: string; bytes: number }> {
+/** An output written to its temporary file, waiting to be put in place (or discarded). */
+export interface StagedOutput {
+  name: string;
+  bytes: number;
+  /** Rename the temporary file over the target (or write standard output). */
+  commit(): Promise<void>;
+  /** Remove the temporary file. */
+  discard(): Promise<void>;
+}
+
+/** Write an output to a temporary file in its folder (creating the folder); nothing is replaced yet. */
+export async function stageOutput(ctx: CliContext, out: string, data: string | Uint8Array, format: OutputFormat): Promise<StagedOutput> {
   const bytes = typeof data === 'string' ? new TextEncoder().encode(data) : data;
   if (out === '-') {
     if (format === 'xlsx' && ctx.stdout.isTTY) throw new UsageError('will not write an XLSX workbook to a terminal', 'binary-to-tty', 'Give --out FILE.xlsx, or redirect standard output to a file');
-    ctx.stdout.write(bytes);
-    return { name: '-', bytes: bytes.length };
+    return { name: '-', bytes: bytes.length, commit: async () => void ctx.stdout.write(bytes), discard: async () => {} };
   }
   const path = absolute(ctx, out);
-  await mkdir(dirname(path), { recursive: true });
-  await writeFile(path, bytes);
-  return { name: out, bytes: bytes.length };
+  const dir = dirname(path);
+  await mkdir(dir, { recursive: true });
+  const temp = join(dir, `.${basename(path)}.${process.pid}-${randomBytes(4).toString('hex')}.tmp`);
+  try {
+    await writeFile(temp, bytes, { flag: 'wx' });
+    // A file replaced keeps its permissions.
+    const old = await stat(path).catch(() => undefined);
+    if (old?.isFile()) await chmod(temp, old.mode & 0o7777);
+  } catch (e) {
+    await unlink(temp).catch(() => {});
+    throw e;
+  }
+  return {
+    name: out,
+    bytes: bytes.length,
+    commit: () => rename(temp, path),
+    discard: () => unlink(temp).catch(() => {}),
+  };
+}
+
+/** Write text or bytes to a file (through a temporary file, then renamed) or to standard output for `-`. */
+export async function writeOutput(ctx: CliContext, out: string, data: string | Uint8Array, format: OutputFormat): Promise<{ name: string; bytes: number }> {
+  const staged = await stageOutput(ctx, out, data, format);
+  await staged.commit();
+  return { name: staged.name, bytes: staged.bytes };
+}
+
+/**
+ * Refuse outputs that would replace an input read by this run (the same file through any name,
+ * link or hard link) and a file named twice among the outputs.
+ */
+export async function checkOutputTargets(ctx: CliContext, outs: readonly string[]): Promise<void> {
+  const seen: { out: string; path: string; dev?: number; ino?: number }[] = [];
+  const inputs = inputsRead.get(ctx) ?? [];
+  for (const out of outs) {
+    if (out === '-') continue;
+    const path = absolute(ctx, out);
+    const info = await stat(path).catch(() => undefined);
+    const same = (o: { path: string; dev?: number; ino?: number }) => o.path === path || (info !== undefined && o.dev === info.dev && o.ino === info.ino);
+    const input = inputs.find(same);
+    if (input) {
+      throw new UsageError(`the output '${out}' is the ${input.role} file '${input.name}' this command reads; writing it would replace the input`, 'output-is-input', 'Give the output another file name');
+    }
+    const twice = seen.find(same);
+    if (twice) throw new UsageError(`the output file '${out}' is given twice${twice.out !== out ? ` (also as '${twice.out}')` : ''}`, 'output-twice', 'Give each --out once');
+    seen.push(info ? { out, path, dev: info.dev, ino: info.ino } : { out, path });
+  }
 }

@@ -10,6 +10,7 @@ import { processContext, styles, useColour } from './context';
 import { EXIT_OK, EXIT_USAGE, errorReport } from './errors';
 import { jsonText } from './output';
 import { terminalSafe } from './text';
+import { parseLimits, setLimits } from '../io/limits';
 import { register as aggregate } from './commands/aggregate';
 import { register as check } from './commands/check';
 import { register as coefficients } from './commands/coefficients';
@@ -65,6 +66,12 @@ Examples:
 export async function main(argv: readonly string[], ctx: CliContext = processContext()): Promise<number> {
   let action: Action | undefined;
   let json = argv.includes('--json');
+  try {
+    // Limits raised for this run (RIPPLEWISE_LIMITS=maxSectors=20000,maxCells=2e8), else the defaults.
+    setLimits(ctx.env.RIPPLEWISE_LIMITS ? parseLimits(ctx.env.RIPPLEWISE_LIMITS) : {});
+  } catch (e) {
+    return fail(ctx, e, json);
+  }
   const p = program(ctx, (a, j) => {
     action = a;
     json = j;
@@ -93,6 +100,23 @@ export async function main(argv: readonly string[], ctx: CliContext = processCon
   } catch (e) {
     return fail(ctx, e, json);
   }
+}
+
+/**
+ * The command as a process runs it (bin/ripplewise.mjs): `main` with the process's streams, and
+ * a fault that escapes every handler (an error thrown in a callback, a promise rejected with no
+ * one waiting) still ends as "internal error" with its id and exit 2, never as a stack trace.
+ */
+export async function runProcess(argv: readonly string[]): Promise<number> {
+  const ctx = processContext();
+  const json = argv.includes('--json');
+  const fault = (e: unknown) => {
+    process.exitCode = fail(ctx, e, json);
+    process.exit();
+  };
+  process.on('uncaughtException', fault);
+  process.on('unhandledRejection', fault);
+  return main(argv, ctx);
 }
 
 function fail(ctx: CliContext, e: unknown, json: boolean): number {

@@ -3,6 +3,7 @@ import { InputError } from '../../engine/errors';
 import type { ResolvedScenario, Scenario } from '../../engine/scenario';
 import { checkScenario, resolveScenario } from '../../engine/scenario';
 import type { Table } from '../../engine/table';
+import { checkScenarioCells } from '../io/limits';
 import { readScenarios } from '../project/scenarios';
 import type { CliContext } from './context';
 import { UsageError } from './errors';
@@ -27,6 +28,7 @@ export async function loadScenarios(ctx: CliContext, name: string, t: Table, onl
       return s;
     });
   }
+  checkScenarioCells(chosen.length, t.sectors.codes.length, name);
   const problems: string[] = [];
   for (const s of chosen) for (const f of checkScenario(t, s)) problems.push(f.message);
   if (problems.length) {

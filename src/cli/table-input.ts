@@ -10,6 +10,7 @@ import type { Table } from '../../engine/table';
 import { makeTable } from '../../engine/table';
 import type { MappingInput } from '../io/index';
 import { parseMapping, readTableFile } from '../io/index';
+import { checkSectors } from '../io/limits';
 import { parseJson } from '../project/json';
 import { PROJECT_FORMAT, readProject } from '../project/project';
 import type { CliContext } from './context';
@@ -144,7 +145,9 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     const text = new TextDecoder('utf-8').decode(file.bytes);
     const head = parseJson(text, name) as { format?: unknown };
     if (head && typeof head === 'object' && head.format === PROJECT_FORMAT) {
-      return { table: makeTable(readProject(text, name).table), file, findings: [], extra, shape: 'json' };
+      const table = makeTable(readProject(text, name).table);
+      checkSectors(table.sectors.codes.length, name);
+      return { table, file, findings: [], extra, shape: 'json' };
     }
   }
   const sheet = sheetOption(flags.sheet);
@@ -167,6 +170,7 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     ...(select ? { shape: flags.shape === 'wide' ? 'wide' : ('long' as const) } : {}),
     ...(flags.tableKind ? { kind: flags.tableKind as 'flows' | 'coefficients' } : {}),
   });
+  checkSectors(r.table.sectors.codes.length, name);
   const out: LoadedTable = { table: r.table, file, findings: r.findings, extra, mapping: r.mapping, shape: r.shape };
   if (flags.sheet !== undefined) out.sheet = flags.sheet;
   return out;

@@ -7,11 +7,13 @@
 import { InputError } from '../../engine/errors';
 import type { PlainTable, Table } from '../../engine/table';
 import { makeTable } from '../../engine/table';
+import { checkJsonDepth } from './limits';
 import type { LabelledMatrix } from './write';
 
 function parse(text: string, file: string): unknown {
   const t = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   if (!t.trim()) throw new InputError('empty-file', `file ${file} is empty`, { file }, 'Give a file with a table in it');
+  checkJsonDepth(t, file);
   try {
     return JSON.parse(t);
   } catch (e) {

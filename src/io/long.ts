@@ -22,7 +22,7 @@ import { CsvScanner, ESCAPED, type FieldSink, fieldText, numberScan, plainDecima
 import { type CsvOptions, DELIMITERS, type Delimiter, detectDelimiter, whereAt, withTieBreak } from './csv';
 import { decodeBytes, type Encoding, sniffBom } from './decode';
 import { EMPTY, type Grid, normalizeCode, normalizeLabel } from './grid';
-import { checkBytes, limitsOf, sizeText } from './limits';
+import { checkBytes, limitOption, limitsOf, sizeText } from './limits';
 import type { LayoutMapping, MappingInput } from './mapping';
 import { analyseNumber, type DecimalMark, type NumberConventions, NumberReader, numberHint } from './numbers';
 
@@ -726,7 +726,8 @@ class LongReader {
     const cPos = new Int32Array(nc);
     colOrder.forEach((c, i) => (cPos[c] = i));
     const bytes = nr * nc * 8;
-    if (bytes > 16 * 1024 ** 3) throw new InputError('too-large', `file ${file} has ${nr} row codes and ${nc} column codes: a dense matrix of ${sizeText(bytes)} is too large`, { file }, 'Check the code fields; a long file of a table has a few thousand codes at most');
+    // The dense matrix is held to the cell limit before it is made (a few hundred kilobytes of lines can name 20,000 codes).
+    if (nr * nc > this.maxCells) throw new InputError('too-large', `file ${file} has ${nr.toLocaleString('en')} row codes and ${nc.toLocaleString('en')} column codes: a dense matrix of ${(nr * nc).toLocaleString('en')} cells (${sizeText(bytes)}) is over the limit of ${this.maxCells.toLocaleString('en')} cells`, { file }, `Check the code fields (a long file of a table has a few thousand codes at most), or raise the limit (${limitOption('maxCells')})`);
     const data = new Float64Array(nr * nc);
     const seen = new Uint8Array(Math.ceil((nr * nc) / 8));
     const sum = (this.options.duplicates ?? 'error') === 'sum';

@@ -14,7 +14,7 @@
  */
 import { Inflate } from 'fflate';
 import { InputError } from '../../engine/errors';
-import { sizeText } from './limits';
+import { limitOption, sizeText } from './limits';
 
 export interface ZipEntry {
   name: string;
@@ -117,7 +117,7 @@ export function checkZipSizes(entries: ZipEntry[], file: string, limits: ZipLimi
         'xlsx-expands-too-far',
         `file ${file} would expand to more than ${sizeText(limits.maxExpandedBytes)} when opened (the limit); its part '${e.name}' alone is ${sizeText(e.size)}`,
         { file },
-        'Raise the limit (maxExpandedBytes) if the workbook is genuine, or export the sheet as CSV',
+        `Raise the limit (${limitOption('maxExpandedBytes')}) if the workbook is genuine, or export the sheet as CSV`,
       );
     }
     if (e.size > 1024 * 1024 && e.size / Math.max(1, e.compressedSize) > limits.maxCompressionRatio) {
@@ -125,7 +125,7 @@ export function checkZipSizes(entries: ZipEntry[], file: string, limits: ZipLimi
         'xlsx-expands-too-far',
         `file ${file}: its part '${e.name}' expands ${Math.round(e.size / Math.max(1, e.compressedSize))} times (${sizeText(e.compressedSize)} to ${sizeText(e.size)}), more than the limit of ${limits.maxCompressionRatio} times; this is how a zip bomb looks`,
         { file },
-        'Raise the limit (maxCompressionRatio) if the workbook is genuine, or export the sheet as CSV',
+        `Raise the limit (${limitOption('maxCompressionRatio')}) if the workbook is genuine, or export the sheet as CSV`,
       );
     }
   }
@@ -135,7 +135,7 @@ export function checkZipSizes(entries: ZipEntry[], file: string, limits: ZipLimi
       'xlsx-expands-too-far',
       `file ${file}: its ${entries.length} parts expand ${Math.round(total / Math.max(1, packed))} times together (${sizeText(packed)} to ${sizeText(total)}), more than the limit of ${limits.maxCompressionRatio} times; this is how a zip bomb looks`,
       { file },
-      'Raise the limit (maxCompressionRatio) if the workbook is genuine, or export the sheet as CSV',
+      `Raise the limit (${limitOption('maxCompressionRatio')}) if the workbook is genuine, or export the sheet as CSV`,
     );
   }
 }

@@ -3,10 +3,12 @@
  * there, instead of a bare "Unexpected token".
  */
 import { InputError } from '../../engine/errors';
+import { checkJsonDepth } from '../io/limits';
 
 export function parseJson(text: string, file: string): unknown {
   const body = text.charCodeAt(0) === 0xfeff ? text.slice(1) : text;
   if (!body.trim()) throw new InputError('empty-file', `${file}: the file is empty`, { file }, 'Expected a JSON document');
+  checkJsonDepth(body, file);
   try {
     return JSON.parse(body);
   } catch (e) {
