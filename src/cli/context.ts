@@ -70,8 +70,16 @@ export function absolute(ctx: CliContext, file: string): string {
 }
 
 /** ANSI styles that collapse to nothing without colour. */
+/**
+ * The mark of the program's own colours in text on its way to a terminal: a private-use
+ * character and a random word drawn once per process, which data read from a file cannot know.
+ * `terminalSafe` (text.ts) escapes every control character of the text and then turns these
+ * marks, and only these, into escape sequences.
+ */
+export const COLOUR_MARK = `\ue000${Math.random().toString(36).slice(2, 10)}`;
+
 export function styles(on: boolean) {
-  const wrap = (open: number, close: number) => (s: string) => (on ? `\u001b[${open}m${s}\u001b[${close}m` : s);
+  const wrap = (open: number, close: number) => (s: string) => (on ? `${COLOUR_MARK}${open}m${s}${COLOUR_MARK}${close}m` : s);
   return {
     bold: wrap(1, 22),
     dim: wrap(2, 22),

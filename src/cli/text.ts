@@ -2,7 +2,7 @@
 import type { Finding } from '../../engine/findings';
 import { sortFindings } from '../../engine/findings';
 import { describeWhere } from '../../engine/errors';
-import { styles } from './context';
+import { COLOUR_MARK, styles } from './context';
 
 export interface TextColumn {
   label: string;
@@ -40,10 +40,18 @@ export const CAUTION_LINE =
   'Cautions: fixed coefficients, no capacity limits, gross not net effects, not a forecast; have a qualified economist review results and follow local guidance first.';
 
 /**
- * Text bound for a terminal with the control characters of the data made visible (`\x1b`, `\x0d`):
- * a label read from a file can then neither move the cursor, rewrite a line nor set a title. Our
- * own colour codes (ESC [ digits m) are kept; line feeds and tabs too.
+ * Text bound for a terminal or a pipe, with what the data could use to take over the screen
+ * shown as escapes instead: C0 and C1 control characters (`\x1b`, `\x0d`, `\x9b`) and the
+ * Unicode bidirectional controls (`\u202e`, which would show a label backwards), so that a
+ * label read from a file can neither move the cursor, rewrite a line, set a title, colour the
+ * text nor reorder it. Line feeds and tabs are kept. The program's own colours (marked by
+ * `styles`, see COLOUR_MARK) become escape sequences only after that, so colour comes from the
+ * program alone.
  */
 export function terminalSafe(s: string): string {
-  return s.replace(/\u001b\[[0-9;]*m|[\u0000-\u0008\u000b-\u001f\u007f-\u009f]/g, (m) => (m.length > 1 ? m : `\\x${m.charCodeAt(0).toString(16).padStart(2, '0')}`));
+  const safe = s.replace(/[\u0000-\u0008\u000b-\u001f\u007f-\u009f]|[\u061c\u200e\u200f\u202a-\u202e\u2066-\u2069]/g, (m) => {
+    const c = m.charCodeAt(0);
+    return c < 0x100 ? `\\x${c.toString(16).padStart(2, '0')}` : `\\u${c.toString(16).padStart(4, '0')}`;
+  });
+  return safe.indexOf(COLOUR_MARK) < 0 ? safe : safe.split(COLOUR_MARK).join('\u001b[');
 }
