@@ -14,6 +14,7 @@ import { reportInput } from './files';
 import type { OutputOptions } from './output';
 import type { LoadedTable, TableFlags } from './table-input';
 import { loadTable } from './table-input';
+import { rangeFindings } from './finite';
 
 const pkg = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { name: string; version: string };
 
@@ -77,7 +78,7 @@ export interface CheckedTable extends LoadedTable {
 /** Read the table and run its checks; a table with error findings stops the command (exit 1). */
 export async function checkedTable(ctx: CliContext, name: string, flags: TableFlags, o: { allowErrors?: boolean } = {}): Promise<CheckedTable> {
   const loaded = await loadTable(ctx, name, flags);
-  const found = [...loaded.findings, ...checks(loaded.table)];
+  const found = [...loaded.findings, ...checks(loaded.table), ...rangeFindings(loaded.table)];
   if (!o.allowErrors && hasErrors(found)) throw new ChecksFailed(name, found);
   return { ...loaded, checks: found };
 }

@@ -34,6 +34,15 @@ export class ChecksFailed extends Error {
   }
 }
 
+/** A result with infinities in it (an overflow): it is not delivered (exit 1). */
+export class ResultNotFinite extends Error {
+  override name = 'ResultNotFinite';
+  readonly code = 'non-finite-result';
+  constructor(readonly findings: readonly Finding[]) {
+    super(`the result is not finite: ${findings.map((f) => f.message).join('; ')}`);
+  }
+}
+
 export interface ErrorReport {
   code: string;
   message: string;
@@ -47,6 +56,9 @@ export interface ErrorReport {
 export function errorReport(e: unknown): ErrorReport {
   if (e instanceof ChecksFailed) {
     return { code: e.code, message: e.message, exitCode: EXIT_CHECKS, findings: [...e.findings], hint: `Run 'ripplewise check ${e.file}' for every finding` };
+  }
+  if (e instanceof ResultNotFinite) {
+    return { code: e.code, message: e.message, exitCode: EXIT_CHECKS, findings: [...e.findings], hint: 'Check the table for amounts near the largest number (1e308), or a scale far too large' };
   }
   if (e instanceof UsageError) {
     const r: ErrorReport = { code: e.code, message: e.message, exitCode: EXIT_USAGE };

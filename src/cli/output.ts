@@ -7,7 +7,8 @@
 import { normalize } from 'node:path';
 import type { CliContext } from './context';
 import { styles, useColour } from './context';
-import { UsageError } from './errors';
+import { ResultNotFinite, UsageError } from './errors';
+import { infiniteFindings } from './finite';
 import type { OutputFormat } from './files';
 import { checkOutputTargets, outputFormat, type StagedOutput, stageOutput } from './files';
 import { terminalSafe } from './text';
@@ -75,6 +76,9 @@ export function jsonText(v: unknown): string {
  */
 export async function deliver(ctx: CliContext, outcome: Outcome, plan: PlannedOutput[], o: OutputOptions): Promise<number> {
   const written: { file: string; format: OutputFormat; bytes: number }[] = [];
+  const body = outcome.json();
+  const infinite = infiniteFindings(body);
+  if (infinite.length) throw new ResultNotFinite(infinite);
   await checkOutputTargets(
     ctx,
     plan.map((p) => p.out),
@@ -102,7 +106,6 @@ export async function deliver(ctx: CliContext, outcome: Outcome, plan: PlannedOu
     }
   }
   if (o.json) {
-    const body = outcome.json();
     const doc = written.length && body && typeof body === 'object' && !Array.isArray(body) ? { ...(body as object), written } : body;
     ctx.stdout.write(jsonText(doc));
   } else if (!plan.length) {

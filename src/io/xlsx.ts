@@ -197,6 +197,8 @@ const ENTITIES: Record<string, string> = { amp: '&', lt: '<', gt: '>', quot: '"'
 
 /** XML entities and character references, then OOXML's `_xHHHH_` escapes. */
 export function unescapeXml(s: string): string {
+  // Line ends as an XML parser gives them (XML 1.0, 2.11): CR LF and a lone CR become LF.
+  if (s.indexOf('\r') >= 0) s = s.replace(/\r\n?/g, '\n');
   if (s.indexOf('&') >= 0) {
     s = s.replace(/&(#x[0-9a-fA-F]+|#\d+|\w+);/g, (m, e: string) => {
       if (e[0] === '#') {
