@@ -116,6 +116,8 @@ export async function runProcess(argv: readonly string[]): Promise<number> {
   };
   process.on('uncaughtException', fault);
   process.on('unhandledRejection', fault);
+  // A reader that stops early (`| head`) closes the pipe: that is the end, not a fault.
+  for (const s of [process.stdout, process.stderr]) s.on('error', (e: NodeJS.ErrnoException) => (e.code === 'EPIPE' ? process.exit(process.exitCode ?? 0) : fault(e)));
   return main(argv, ctx);
 }
 
