@@ -23,11 +23,12 @@ import { InputError, type Where } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
 import { LeontiefModel } from '../../engine/leontief';
 import type { Matrix } from '../../engine/linalg/matrix';
-import type { Axis, Satellite, Table, TableMeta } from '../../engine/table';
-import { validateTable } from '../../engine/table';
+import type { Axis, ClassedAxis, DemandClass, InputClass, Satellite, Table, TableMeta } from '../../engine/table';
+import { VALUE_ADDED_CLASSES, validateTable } from '../../engine/table';
 import { type Block, DenseBlock, type Entry } from './block';
 import { normalizeCode, TEXT } from './grid';
 import { maximalRuns, runSubtotals } from './rules/run-subtotals';
+import { demandClassOf, inputClassOf } from './rules/classes';
 import {
   COLUMN_ROLES,
   type ColumnRole,
@@ -369,6 +370,13 @@ export function classify(block: Block, options: AssembleOptions): Classified {
   if (demote(true)) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   positional();
   if (demote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
+  // Lines read as data once more (a tax row first taken for a total by its code, T*) may complete
+  // the run a subtotal adds up (GVA = TlSPrdn + CoE + GOS): look for subtotals again.
+  if (!plain) {
+    const was = [...rowRoles, ...colRoles].join('\u0000');
+    findSubtotals(block, rowRoles, colRoles, rowWhy, colWhy, rr, cr);
+    if ([...rowRoles, ...colRoles].join('\u0000') !== was) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
+  }
   if (promote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   if (positional() && promote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   checkTotals(block, rowRoles, colRoles, kind, findings, true, totals);
@@ -1272,6 +1280,11 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
   } else if (want?.from === 'row-sums') {
     x = rowSums(Zd, Fd, n, fd.length, block.decimals);
     from = { from: 'row-sums' };
+  } else if (outCols.length && outRows.length && promotedOutput(c.colWhy[outCols[outCols.length - 1]!]!) && !promotedOutput(c.rowWhy[outRows[outRows.length - 1]!]!)) {
+    // An output row named so (TOut, 'Total output at basic prices') before a column that is output
+    // only as the sum of everything ('Total use for industry output'): the agency's own output.
+    rowOutput(outRows[outRows.length - 1]!);
+    findings.push({ code: 'output-row-chosen', severity: 'note', message: `file ${file}: total output is read from row ${block.rows[outRows[outRows.length - 1]!]!.code}, named output, not from column ${block.cols[outCols[outCols.length - 1]!]!.code}, which is output only as the sum of the columns`, where: { file } });
   } else if (outCols.length) colOutput(outCols[outCols.length - 1]!);
   else if (outRows.length) rowOutput(outRows[outRows.length - 1]!);
   else if (kind === 'coefficients' && fd.length) {
@@ -1337,12 +1350,15 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
     V = { rows: va.length, cols: n, data: Vd };
   }
 
+  const fdAxis = axisOf(block.cols, fd);
+  const vaAxis = axisOf(block.rows, va);
+  setClasses(block, c, fd, va, fdAxis, vaAxis);
   const table: Table = {
     sectors,
     Z,
-    finalDemand: axisOf(block.cols, fd),
+    finalDemand: fdAxis,
     F: { rows: n, cols: fd.length, data: Fd },
-    valueAdded: axisOf(block.rows, va),
+    valueAdded: vaAxis,
     V,
     x,
     satellites,
@@ -1352,6 +1368,37 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
   validateTable(table);
   const mapping = mappingOf(block, c, kind, options, { ...extra, output: from, meta: tmeta });
   return { table, mapping, findings };
+}
+
+/** Whether a line is output only because it is the sum of everything (not by its name). */
+function promotedOutput(why: string): boolean {
+  return /so it is read as total output$/.test(why);
+}
+
+/**
+ * Classes of the final-demand columns and primary-input rows (src/io/rules/classes.ts), with the
+ * rule and reason added to each line's why. Imports, product taxes and sales by final buyers kept
+ * on the primary-input axis are then not value added (engine isValueAddedRow).
+ */
+function setClasses(block: Block, c: Classified, fd: number[], va: number[], fdAxis: ClassedAxis<DemandClass>, vaAxis: ClassedAxis<InputClass>): void {
+  const dc = fd.map((j) => {
+    const e = block.cols[j]!;
+    const f = demandClassOf(e.code, e.label, e.group);
+    if (f) c.colWhy[j] = `${c.colWhy[j]}; ${f.why}`;
+    return f?.cls;
+  });
+  // The demand classes are shown in the mapping only for now: nothing in the engine reads them yet,
+  // and the table writers do not write them (a written table must read back identical).
+  void dc;
+  void fdAxis;
+  const vc = va.map((i) => {
+    const e = block.rows[i]!;
+    const f = inputClassOf(e.code, e.label);
+    if (f) c.rowWhy[i] = `${c.rowWhy[i]}; ${f.why}`;
+    return f?.cls;
+  });
+  // Only when some row is then not value added: otherwise every row counts, as without classes.
+  if (vc.some((x) => x !== undefined && !VALUE_ADDED_CLASSES.includes(x))) vaAxis.classes = vc;
 }
 
 const BY_POSITION_ROW = 'its code names no column, after the sector rows';
