@@ -9,6 +9,7 @@
  * convention, found or given, as in CSV files); codes keep their text, with stray and
  * non-breaking spaces removed when compared.
  */
+import { chooseSheet } from './sheet-choice';
 import { InputError } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
 import { whereAt } from './csv';
@@ -96,10 +97,14 @@ export async function readXlsx(bytes: Uint8Array, options: XlsxOptions): Promise
   if (want === undefined) {
     // The first sheet that looks like a table (rows with several numbers), else the first with cells:
     // agency workbooks often open with a contents or notes sheet.
-    const tabular = wb.worksheets.find((w) => numericRows(w) >= 2);
+    // By content first (sheet-choice.ts): the sheet whose header row and lead column share most codes.
+    const chosen = wb.worksheets.length > 1 ? chooseSheet(wb.worksheets) : undefined;
+    const tabular = chosen?.sheet ?? wb.worksheets.find((w) => numericRows(w) >= 2);
     ws = tabular ?? wb.worksheets.find((w) => w.actualRowCount > 0) ?? wb.worksheets[0];
     const others = wb.worksheets.filter((w) => w !== ws && w.actualRowCount > 0).map((w) => w.name);
-    if (ws && others.length) {
+    if (chosen && others.length) {
+      findings.push({ code: 'sheet-chosen', severity: 'note', message: `file ${file}: read sheet '${chosen.sheet.name}': ${chosen.why}; other candidates: ${chosen.others.map((o) => `'${o.name}' (${o.codes} codes${o.kind !== 'flows' ? `, named as ${o.kind}` : ''})`).join(', ') || 'none'}; the workbook also has ${others.map((s) => `'${s}'`).join(', ')} (choose one with sheet)`, where: { file, sheet: chosen.sheet.name }, data: { candidates: chosen.others.map((o) => o.name) } });
+    } else if (ws && others.length) {
       findings.push({ code: 'sheet-chosen', severity: 'note', message: `file ${file}: read sheet '${ws.name}', the first ${tabular ? 'that holds a table of numbers' : 'with cells'}; the workbook also has ${others.map((s) => `'${s}'`).join(', ')} (choose one with sheet)`, where: { file, sheet: ws.name } });
     }
   } else if (typeof want === 'number') {
