@@ -53,8 +53,8 @@ describe.skipIf(!present)('the Scottish workbook as it comes', () => {
     expect(t.finalDemand.codes).toContain('Households');
     expect(mapping.output.from).toBe('row');
     expect(mapping.output.code).toBe('TOut');
-    for (const r of mapping.rows) expect(r.why.length).toBeGreaterThan(0);
-    for (const c of mapping.columns) expect(c.why.length).toBeGreaterThan(0);
+    for (const r of mapping.rows) expect((r.why ?? '').length).toBeGreaterThan(0);
+    for (const c of mapping.columns) expect((c.why ?? '').length).toBeGreaterThan(0);
   }, 60_000);
 
   it('gives the published Type I inverse and output, income and GVA multipliers within 1e-6', async () => {
