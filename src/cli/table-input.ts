@@ -9,7 +9,7 @@ import type { Finding } from '../../engine/findings';
 import type { Table } from '../../engine/table';
 import { makeTable } from '../../engine/table';
 import type { MappingInput } from '../io/index';
-import { parseMapping, readTableFile } from '../io/index';
+import { attachSatellites, parseMapping, readGrid, readSatellites, readTableFile } from '../io/index';
 import { parseJson } from '../project/json';
 import { PROJECT_FORMAT, readProject } from '../project/project';
 import type { CliContext } from './context';
@@ -32,6 +32,7 @@ export interface TableFlags {
   select?: string[];
   zeroText?: string[];
   encoding?: string;
+  satelliteFile?: string[];
 }
 
 const ENCODINGS = ['utf-8', 'windows-1252', 'utf-16le', 'utf-16be'] as const;
@@ -167,7 +168,17 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     ...(select ? { shape: flags.shape === 'wide' ? 'wide' : ('long' as const) } : {}),
     ...(flags.tableKind ? { kind: flags.tableKind as 'flows' | 'coefficients' } : {}),
   });
-  const out: LoadedTable = { table: r.table, file, findings: r.findings, extra, mapping: r.mapping, shape: r.shape };
+  let table = r.table;
+  const findings = [...r.findings];
+  for (const name of flags.satelliteFile ?? []) {
+    const sf = await readInput(ctx, name, 'satellites');
+    const g = await readGrid(sf.bytes, { file: sf.name });
+    const sat = readSatellites(g.grid, { sectors: table.sectors });
+    table = attachSatellites(table, sat);
+    extra.push({ role: 'satellites', file: sf });
+    findings.push({ code: 'satellites-attached', severity: 'note', message: `file ${sf.name}: ${sat.satellites.map((x) => `'${x.code}' (${x.unit})`).join(', ')} attached to the table's ${table.sectors.codes.length} sectors`, where: { file: sf.name } });
+  }
+  const out: LoadedTable = { table, file, findings, extra, mapping: r.mapping, shape: r.shape };
   if (flags.sheet !== undefined) out.sheet = flags.sheet;
   return out;
 }

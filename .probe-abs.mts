@@ -1,0 +1,15 @@
+import { readFileSync } from 'node:fs';
+import { readTableFile } from '/work/wt/i12/src/io/index';
+import { LeontiefModel } from '/work/wt/i12/engine/leontief';
+import { labourIncomeMeasure, outputMeasure, valueAddedMeasure } from '/work/wt/i12/engine/measures';
+import { multipliersOf } from '/work/wt/i12/engine/multipliers';
+const b = readFileSync('/work/shared/reference/abs-5246-worked-example/flows-1989-90.csv');
+const r = await readTableFile(new Uint8Array(b), { file: 'flows.csv' });
+const t = r.table;
+console.log(t.sectors.codes, t.finalDemand.codes, t.valueAdded.codes, t.valueAdded.classes, Array.from(t.x), t.imports && Array.from(t.imports));
+for (const f of r.findings) console.log(f.severity, f.code, f.message.slice(0, 200));
+for (const x of r.mapping.rows.slice(7)) console.log(x.code, x.role, x.why);
+const m = LeontiefModel.fromTable(t);
+console.log('out', Array.from(multipliersOf(t.sectors, m, outputMeasure(t)).simple).map(v => v.toFixed(4)).join(' '));
+console.log('inc', Array.from(multipliersOf(t.sectors, m, labourIncomeMeasure(t, 'WSS')).simple).map(v => v.toFixed(4)).join(' '));
+console.log('va', Array.from(multipliersOf(t.sectors, m, valueAddedMeasure(t)).simple).map(v => v.toFixed(4)).join(' '));
