@@ -13,7 +13,7 @@ import { describe, expect, it } from 'vitest';
 import { LeontiefModel } from '../../engine/leontief';
 import { labourIncomeMeasure, outputMeasure, valueAddedMeasure } from '../../engine/measures';
 import { multipliersOf } from '../../engine/multipliers';
-import { readGrid, readTableFile } from '../../src/io';
+import { crossCheckPublished, readGrid, readTableFile } from '../../src/io';
 import { REFERENCE_DIR } from '../helpers/reference';
 
 const FILE = join(REFERENCE_DIR, 'scotland-2016-io', 'IO2016.xlsx');
@@ -107,5 +107,20 @@ describe.skipIf(!present)('the Scottish workbook as it comes', () => {
       }
       expect(worst, name).toBeLessThan(1e-6);
     }
+  }, 60_000);
+
+  it('reports the cross-check with its own published Type I sheets', async () => {
+    const bytes = new Uint8Array(readFileSync(FILE));
+    const { table: t, mapping } = await readTableFile(bytes, { file: 'IO2016.xlsx' });
+    const L = LeontiefModel.fromTable(t).inverse();
+    const { comparisons, findings } = await crossCheckPublished(bytes, 'IO2016.xlsx', t, L, mapping.sheet);
+    const inv = comparisons.find((c) => c.sheet === 'Leontief type I')!;
+    expect(inv.scale).toBe(1000);
+    expect(inv.compared).toBe(98 * 98);
+    expect(inv.worst).toBeLessThan(1e-6);
+    const mult = comparisons.find((c) => c.sheet === 'Type I multipliers')!;
+    expect(mult.worst).toBeLessThan(1e-6);
+    expect(findings.filter((f) => f.code === 'published-agrees').length).toBe(2);
+    expect(findings.find((f) => f.code === 'published-not-compared')?.message).toMatch(/Leontief type II/);
   }, 60_000);
 });
