@@ -10,6 +10,7 @@
  * zero cells, are allowed to miss rows or columns that would be zero). Commodities that only
  * the use table lists (noncomparable imports, for example) are kept: no industry makes them.
  */
+import { proposeScrap } from './rules/scrap';
 import { InputError } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
 import type { Matrix } from '../../engine/linalg/matrix';
@@ -215,13 +216,17 @@ export function readSupplyUse(makeSource: TableSource, useSource: TableSource, o
     make: { rows: ni, cols: nc, data: makeM },
     use: { rows: nc, cols: ni, data: useM },
   };
-  if (options.scrap !== undefined) input.scrap = options.scrap;
+  if (options.scrap !== undefined && options.scrap.toLowerCase() !== 'none') input.scrap = options.scrap;
   if (options.technology) input.technology = options.technology;
   if (options.scrap === undefined) {
-    const s = commodities.labels.findIndex((l) => /\bscrap\b|second-?hand/i.test(l));
-    if (s >= 0) {
-      findings.push({ code: 'scrap-commodity', severity: 'note', message: `commodity '${commodities.codes[s]}' ('${commodities.labels[s]}') looks like scrap; pass scrap: '${commodities.codes[s]}' for the scrap adjustment`, where: { sector: commodities.codes[s]! } });
+    // No scrap given: propose it from its title or the make table's structure, and adopt it.
+    const p = proposeScrap(commodities, makeM, ni);
+    if (p) {
+      input.scrap = p.code;
+      findings.push({ code: 'scrap-commodity', severity: 'note', message: `commodity '${p.code}' is taken for scrap (rule scrap-proposal, by ${p.rule}: ${p.why}), and its output is taken out of the market shares; give scrap: 'none' (the command line: --scrap none) to leave it in, or another code`, where: { sector: p.code }, data: { scrap: p.code, rule: p.rule } });
     }
+  } else if (options.scrap.toLowerCase() === 'none') {
+    findings.push({ code: 'scrap-none', severity: 'note', message: 'no scrap adjustment, as asked (scrap: none)', where: {} });
   }
 
   // In supply and use tables rows and columns are different classifications, so no code names

@@ -63,7 +63,7 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
     .requiredOption('--make <file>', 'the make (supply) table: industries × commodities, a sheet or a long file')
     .requiredOption('--use <file>', 'the use table: commodities × industries with final-demand columns and value-added rows, a sheet or a long file')
     .requiredOption('-k, --kind <kind>', REQUIREMENTS_KINDS.join('|'))
-    .option('--scrap <code>', 'the commodity code of scrap and second-hand goods (its output is taken out of market shares)')
+    .option('--scrap <code>', 'the commodity code of scrap and second-hand goods (its output is taken out of market shares), or none (default: proposed from its title or the make table, with a note)')
     .option('--technology <assumption>', 'industry (default: market shares) or commodity (needs as many industries as commodities)')
     .option('--value-added <patterns>', 'codes of value-added rows of the use table, comma-separated patterns such as V*,T* (default: V* and the usual labels)')
     .option('--final-demand <patterns>', 'codes of final-demand columns of the use table, such as F* (default: F* and the usual labels)')
@@ -122,6 +122,9 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
   }
   const { read } = loaded;
   const model = supplyUse(read.input);
+  // The scrap commodity used: given, or proposed by the reader (a 'scrap-commodity' note names it).
+  const scrap = read.input.scrap;
+  const scrapFrom = f.scrap !== undefined ? 'given' : scrap ? 'guessed' : 'default';
   const R = model.requirements(kind);
   const ax = model.axes(kind);
   const findings = sortFindings([...read.findings, ...model.findings]);
@@ -132,7 +135,7 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
   const settings = [
     setting('kind', 'Requirements', kind, 'given'),
     setting('technology', 'Technology assumption', model.technology, f.technology ? 'given' : 'default'),
-    setting('scrap', 'Scrap commodity', f.scrap ?? null, f.scrap ? 'given' : 'default', f.scrap ? undefined : 'No scrap adjustment'),
+    setting('scrap', 'Scrap commodity', scrap ?? null, scrapFrom, scrap ? undefined : 'No scrap adjustment'),
     setting('makeValueColumn', 'Make: value field', (read.mappings.make.valueField as number | undefined) ?? null, makeValue !== undefined ? 'given' : 'guessed'),
     setting('useValueColumn', 'Use: value field', (read.mappings.use.valueField as number | undefined) ?? null, useValue !== undefined ? 'given' : 'guessed'),
   ];
@@ -157,21 +160,21 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
       settings,
       assumptions: [
         model.technology === 'industry'
-          ? 'Industry technology: each industry has one input structure whatever it makes, and commodities are supplied in fixed market shares (D = V̄ q̂⁻¹)' + (f.scrap ? `, with the output of scrap ('${f.scrap}') taken out of the market shares (W = (I − p̂)⁻¹ D).` : '.')
+          ? 'Industry technology: each industry has one input structure whatever it makes, and commodities are supplied in fixed market shares (D = V̄ q̂⁻¹)' + (scrap ? `, with the output of scrap ('${scrap}') taken out of the market shares (W = (I − p̂)⁻¹ D).` : '.')
           : 'Commodity technology: each commodity has one input structure whichever industry makes it.',
         'Coefficients are fixed: no substitution, no economies of scale, no capacity limits.',
       ],
       findings,
       sections: [matrixSection({ id: `requirements-${kind}`, title: k.title, about: k.about, rows: ax.rows, cols: ax.cols, matrix: R, unit, corner: k.corner, sheet: 'Requirements' }), checksSection(findings)],
     });
-  const about = { 'Make file': loaded.make.file.name, 'Make SHA-256': loaded.make.file.sha256, 'Use file': loaded.use.file.name, 'Use SHA-256': loaded.use.file.sha256, Technology: model.technology, Scrap: f.scrap ?? 'none', Cautions: CAUTION_LINE };
+  const about = { 'Make file': loaded.make.file.name, 'Make SHA-256': loaded.make.file.sha256, 'Use file': loaded.use.file.name, 'Use SHA-256': loaded.use.file.sha256, Technology: model.technology, Scrap: scrap ?? 'none', Cautions: CAUTION_LINE };
   return deliver(
     ctx,
     {
       json: () => ({
         kind,
         technology: model.technology,
-        scrap: f.scrap ?? null,
+        scrap: scrap ?? null,
         make: { file: loaded.make.file.name, sha256: loaded.make.file.sha256, shape: loaded.make.shape, valueField: read.mappings.make.valueField ?? null },
         use: { file: loaded.use.file.name, sha256: loaded.use.file.sha256, shape: loaded.use.shape, valueField: read.mappings.use.valueField ?? null },
         ...matrixJson(m),
@@ -179,7 +182,7 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
       }),
       text: (colour) => {
         const s = styles(colour);
-        return `${k.title}: ${R.rows} × ${R.cols} (${model.industries.codes.length} industries, ${model.commodities.codes.length} commodities, ${model.technology} technology${f.scrap ? `, scrap ${f.scrap}` : ''})\n${findings.length ? `${findingsText(findings, colour)}\n` : ''}${s.dim('Write the matrix with --out FILE.csv (or .tsv, .xlsx, .json, .html).')}\n`;
+        return `${k.title}: ${R.rows} × ${R.cols} (${model.industries.codes.length} industries, ${model.commodities.codes.length} commodities, ${model.technology} technology${scrap ? `, scrap ${scrap}` : ''})\n${findings.length ? `${findingsText(findings, colour)}\n` : ''}${s.dim('Write the matrix with --out FILE.csv (or .tsv, .xlsx, .json, .html).')}\n`;
       },
       writers: matrixWriters(m, report, about),
     },
