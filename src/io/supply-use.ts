@@ -105,7 +105,27 @@ export function readSupplyUse(makeSource: TableSource, useSource: TableSource, o
 
   // Industries: the make table's, and the use table's industry columns.
   const mkIndSet = new Set(mkInd);
-  const useOnlyInd = useInd.filter((c) => !mkIndSet.has(c));
+  let useOnlyInd = useInd.filter((c) => !mkIndSet.has(c));
+  // Rule use-columns-as-final-demand (fixture: numeric final-use codes in a use table): columns of
+  // the use table that are not industries of the make table (and not value added) are final
+  // demand, with a note naming them; the make table says which industries there are.
+  // Only when every industry of the make table has its column: otherwise a column coded otherwise
+  // (I3 for I2) is more likely a typo, and the disagreement is an error.
+  if (useOnlyInd.length && mkInd.length && useOnlyInd.length < useInd.length && mkInd.every((c) => indSet.has(c))) {
+    const moved = new Set(useOnlyInd);
+    const cols = use.sectorCols.filter((j) => moved.has(use.block.cols[j]!.code));
+    for (const j of cols) {
+      use.classified.colRoles[j] = 'final-demand';
+      use.classified.colWhy[j] = `${use.classified.colWhy[j]}, but the make table has no such industry, so it is read as final demand`;
+    }
+    use.sectorCols = use.sectorCols.filter((j) => !moved.has(use.block.cols[j]!.code));
+    use.finalDemand = [...use.finalDemand, ...cols].sort((a, b) => a - b);
+    useInd.splice(0, useInd.length, ...codesOf(use, 'cols', use.sectorCols));
+    indSet.clear();
+    for (const c of useInd) indSet.add(c);
+    findings.push({ code: 'use-columns-final-demand', severity: 'note', message: `file ${uf}: ${useOnlyInd.length} column${useOnlyInd.length > 1 ? 's' : ''} of the use table ${useOnlyInd.length > 1 ? 'are' : 'is'} not an industry of the make table (file ${mf}), so ${useOnlyInd.length > 1 ? 'they are' : 'it is'} read as final demand: ${listCodes(useOnlyInd)}; set ${useOnlyInd.length > 1 ? 'their roles' : 'its role'} in the use mapping if not`, where: { file: uf } });
+    useOnlyInd = [];
+  }
   const makeOnlyInd = mkInd.filter((c) => !indSet.has(c));
   if (useOnlyInd.length) {
     const j = use.sectorCols[useInd.indexOf(useOnlyInd[0]!)]!;
