@@ -9,7 +9,7 @@ import type { Finding } from '../../engine/findings';
 import type { Table } from '../../engine/table';
 import { makeTable } from '../../engine/table';
 import type { MappingInput } from '../io/index';
-import { attachSatellites, parseMapping, readGrid, readSatellites, readTableFile } from '../io/index';
+import { applyLabels, attachSatellites, parseMapping, readGrid, readLabelList, readSatellites, readTableFile } from '../io/index';
 import { parseJson } from '../project/json';
 import { PROJECT_FORMAT, readProject } from '../project/project';
 import type { CliContext } from './context';
@@ -33,6 +33,15 @@ export interface TableFlags {
   zeroText?: string[];
   encoding?: string;
   satelliteFile?: string[];
+  labels?: string;
+}
+
+/** --labels FILE: a list of codes and titles (CSV, TSV, XLSX or lines of 'code title'). */
+export async function loadLabels(ctx: CliContext, name: string | undefined): Promise<{ labels?: Map<string, string>; file?: InputFile }> {
+  if (name === undefined) return {};
+  const file = await readInput(ctx, name, 'labels');
+  const { grid } = await readGrid(file.bytes, { file: file.name });
+  return { labels: readLabelList(grid), file };
 }
 
 const ENCODINGS = ['utf-8', 'windows-1252', 'utf-16le', 'utf-16be'] as const;
@@ -177,6 +186,12 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     table = attachSatellites(table, sat);
     extra.push({ role: 'satellites', file: sf });
     findings.push({ code: 'satellites-attached', severity: 'note', message: `file ${sf.name}: ${sat.satellites.map((x) => `'${x.code}' (${x.unit})`).join(', ')} attached to the table's ${table.sectors.codes.length} sectors`, where: { file: sf.name } });
+  }
+  const lab = await loadLabels(ctx, flags.labels);
+  if (lab.labels) {
+    const n = applyLabels(table.sectors, lab.labels) + applyLabels(table.finalDemand, lab.labels) + applyLabels(table.valueAdded, lab.labels);
+    extra.push({ role: 'labels', file: lab.file! });
+    findings.push({ code: 'labels-attached', severity: 'note', message: `file ${lab.file!.name}: ${n} titles attached to codes of the table`, where: { file: lab.file!.name } });
   }
   const out: LoadedTable = { table, file, findings, extra, mapping: r.mapping, shape: r.shape };
   if (flags.sheet !== undefined) out.sheet = flags.sheet;

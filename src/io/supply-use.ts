@@ -11,6 +11,7 @@
  * the use table lists (noncomparable imports, for example) are kept: no industry makes them.
  */
 import { proposeScrap } from './rules/scrap';
+import { applyLabels } from './labels';
 import { InputError } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
 import type { Matrix } from '../../engine/linalg/matrix';
@@ -21,8 +22,10 @@ import type { LayoutMapping, MappingInput } from './mapping';
 import { sourceBlock, type TableSource } from './tables';
 
 export interface SupplyUseOptions {
-  /** The code of the scrap (used and second-hand goods) commodity, passed to the engine. */
+  /** The code of the scrap (used and second-hand goods) commodity, passed to the engine; 'none' for no adjustment; default: proposed. */
   scrap?: string;
+  /** Titles by code (readLabelList), for tables that carry codes only. */
+  labels?: ReadonlyMap<string, string>;
   technology?: Technology;
   /** Mappings for each table (as reported, or parts of them). */
   makeMapping?: MappingInput;
@@ -184,6 +187,10 @@ export function readSupplyUse(makeSource: TableSource, useSource: TableSource, o
   const comCodes = [...useCom, ...makeOnlyCom];
   const industries: Axis = { codes: indCodes, labels: indCodes.map((c) => pickLabel(c, indLabels)) };
   const commodities: Axis = { codes: comCodes, labels: comCodes.map((c) => pickLabel(c, comLabels)) };
+  if (options.labels) {
+    const n = applyLabels(industries, options.labels) + applyLabels(commodities, options.labels);
+    findings.push({ code: 'labels-attached', severity: 'note', message: `${n} industry and commodity titles taken from the list of codes and titles`, where: {} });
+  }
   const ni = indCodes.length;
   const nc = comCodes.length;
   const indIdx = new Map(indCodes.map((c, i) => [c, i]));

@@ -23,7 +23,7 @@ import { list } from '../model-options';
 import { deliver, planOutputs } from '../output';
 import { progress } from '../progress';
 import { loadSupplyUse } from '../supply-use-input';
-import { blanksOption, numberOptions, selectOption } from '../table-input';
+import { blanksOption, loadLabels, numberOptions, selectOption } from '../table-input';
 import { CAUTION_LINE, findingsText } from '../text';
 
 interface Flags extends CommonFlags {
@@ -31,6 +31,7 @@ interface Flags extends CommonFlags {
   use?: string;
   kind?: string;
   scrap?: string;
+  labels?: string;
   technology?: string;
   valueAdded?: string;
   finalDemand?: string;
@@ -63,6 +64,7 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
     .requiredOption('--make <file>', 'the make (supply) table: industries × commodities, a sheet or a long file')
     .requiredOption('--use <file>', 'the use table: commodities × industries with final-demand columns and value-added rows, a sheet or a long file')
     .requiredOption('-k, --kind <kind>', REQUIREMENTS_KINDS.join('|'))
+    .option('--labels <file>', 'a list of codes and titles (CSV, TSV, XLSX or lines of code and title) for make and use tables that carry codes only')
     .option('--scrap <code>', 'the commodity code of scrap and second-hand goods (its output is taken out of market shares), or none (default: proposed from its title or the make table, with a note)')
     .option('--technology <assumption>', 'industry (default: market shares) or commodity (needs as many industries as commodities)')
     .option('--value-added <patterns>', 'codes of value-added rows of the use table, comma-separated patterns such as V*,T* (default: V* and the usual labels)')
@@ -95,6 +97,7 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
   const useValue = numberOption(f.useValueColumn, '--use-value-column', { min: 1, integer: true });
   const blanks = blanksOption(f.blanks);
   const plan = planOutputs(f, FORMATS);
+  const { labels } = await loadLabels(ctx, f.labels);
   const bar = await progress(ctx, 'requirements', 3, f);
   let loaded;
   try {
@@ -106,6 +109,7 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
       { make: { ...(f.makeSheet !== undefined ? { sheet: f.makeSheet } : {}), ...(makeValue !== undefined ? { valueColumn: makeValue } : {}) }, use: { ...(f.useSheet !== undefined ? { sheet: f.useSheet } : {}), ...(useValue !== undefined ? { valueColumn: useValue } : {}) } },
       {
         ...(f.scrap !== undefined ? { scrap: f.scrap } : {}),
+        ...(labels ? { labels } : {}),
         ...(f.technology ? { technology: f.technology as Technology } : {}),
         ...(f.valueAdded !== undefined ? { valueAdded: list(f.valueAdded)! } : {}),
         ...(f.finalDemand !== undefined ? { finalDemand: list(f.finalDemand)! } : {}),
