@@ -129,8 +129,19 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
   // The scrap commodity used: given, or proposed by the reader (a 'scrap-commodity' note names it).
   const scrap = read.input.scrap;
   const scrapFrom = f.scrap !== undefined ? 'given' : scrap ? 'guessed' : 'default';
-  const R = model.requirements(kind);
-  const ax = model.axes(kind);
+  let R = model.requirements(kind);
+  let ax = model.axes(kind);
+  // Direct requirements as agencies publish them: the value-added rows per unit of industry output
+  // below the commodity rows (V ĝ⁻¹).
+  const va = read.valueAdded;
+  if (kind === 'direct' && va.V.rows > 0) {
+    const ni = R.cols;
+    const data = new Float64Array((R.rows + va.V.rows) * ni);
+    data.set(R.data);
+    for (let a = 0; a < va.V.rows; a++) for (let j = 0; j < ni; j++) data[(R.rows + a) * ni + j] = model.g[j]! > 0 ? va.V.data[a * ni + j]! / model.g[j]! : 0;
+    R = { rows: R.rows + va.V.rows, cols: ni, data };
+    ax = { rows: { codes: [...ax.rows.codes, ...va.axis.codes], labels: [...ax.rows.labels, ...va.axis.labels] }, cols: ax.cols };
+  }
   const findings = sortFindings([...read.findings, ...model.findings]);
   if (findings.some((x) => x.severity === 'error')) throw new InputError('supply-use-errors', `the make and use tables cannot be used: ${findings.filter((x) => x.severity === 'error').map((x) => x.message).join('; ')}`);
   const k = KIND_TEXT[kind];
