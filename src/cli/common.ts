@@ -52,7 +52,9 @@ export function tableOptions(cmd: Command): Command {
     .option('--decimal <mark>', "the decimal mark of a CSV or TSV file: '.' or ',' (default: seen in the numbers)")
     .option('--encoding <name>', 'the text encoding of a CSV or TSV file: utf-8, windows-1252, utf-16le or utf-16be (default: from a byte-order mark, else UTF-8, else Windows-1252 with a warning)')
     .option('--thousands <separator>', "the thousands separator: one character, such as ',' '.' or ' ', or 'none' (default: seen in the numbers)")
-    .option('--table-kind <kind>', 'flows|coefficients: transactions, or technical coefficients A (default: detected)');
+    .option('--table-kind <kind>', 'flows|coefficients: transactions, or technical coefficients A (default: detected)')
+    .option('--labels <file>', 'a list of codes and titles (CSV, TSV, XLSX or lines of code and title) for a table that carries codes only')
+    .option('--satellite-file <file>', 'employment, emissions or other values by sector from another file: sector codes in one column, one or more value columns, the unit in a unit row, in brackets or in the heading (repeatable)', collect);
 }
 
 /** Examples at the end of a command's help. */

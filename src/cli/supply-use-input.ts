@@ -40,6 +40,8 @@ async function source(ctx: CliContext, name: string, role: 'make' | 'use', side:
 
 export interface SupplyUseFlags {
   scrap?: string;
+  /** Titles by code from --labels. */
+  labels?: ReadonlyMap<string, string>;
   technology?: Technology;
   valueAdded?: string[];
   finalDemand?: string[];
@@ -61,6 +63,7 @@ export async function loadSupplyUse(ctx: CliContext, make: string, use: string, 
   if (f.ignore) patterns.ignore = { codes: f.ignore };
   const read: SupplyUseRead = readSupplyUse(mk.source, us.source, {
     ...(f.scrap !== undefined ? { scrap: f.scrap } : {}),
+    ...(f.labels ? { labels: f.labels } : {}),
     ...(f.technology ? { technology: f.technology } : {}),
     ...(Object.keys(patterns).length ? { patterns } : {}),
     ...(f.blanks ? { blanks: f.blanks } : {}),

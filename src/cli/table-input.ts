@@ -9,7 +9,7 @@ import type { Finding } from '../../engine/findings';
 import type { Table } from '../../engine/table';
 import { makeTable } from '../../engine/table';
 import type { MappingInput } from '../io/index';
-import { parseMapping, readTableFile } from '../io/index';
+import { applyLabels, attachSatellites, parseMapping, readGrid, readLabelList, readSatellites, readTableFile } from '../io/index';
 import { checkSectors } from '../io/limits';
 import { parseJson } from '../project/json';
 import { PROJECT_FORMAT, readProject } from '../project/project';
@@ -33,6 +33,16 @@ export interface TableFlags {
   select?: string[];
   zeroText?: string[];
   encoding?: string;
+  satelliteFile?: string[];
+  labels?: string;
+}
+
+/** --labels FILE: a list of codes and titles (CSV, TSV, XLSX or lines of 'code title'). */
+export async function loadLabels(ctx: CliContext, name: string | undefined): Promise<{ labels?: Map<string, string>; file?: InputFile }> {
+  if (name === undefined) return {};
+  const file = await readInput(ctx, name, 'labels');
+  const { grid } = await readGrid(file.bytes, { file: file.name });
+  return { labels: readLabelList(grid), file };
 }
 
 const ENCODINGS = ['utf-8', 'windows-1252', 'utf-16le', 'utf-16be'] as const;
@@ -171,7 +181,23 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     ...(flags.tableKind ? { kind: flags.tableKind as 'flows' | 'coefficients' } : {}),
   });
   checkSectors(r.table.sectors.codes.length, name);
-  const out: LoadedTable = { table: r.table, file, findings: r.findings, extra, mapping: r.mapping, shape: r.shape };
+  let table = r.table;
+  const findings = [...r.findings];
+  for (const name of flags.satelliteFile ?? []) {
+    const sf = await readInput(ctx, name, 'satellites');
+    const g = await readGrid(sf.bytes, { file: sf.name });
+    const sat = readSatellites(g.grid, { sectors: table.sectors });
+    table = attachSatellites(table, sat);
+    extra.push({ role: 'satellites', file: sf });
+    findings.push({ code: 'satellites-attached', severity: 'note', message: `file ${sf.name}: ${sat.satellites.map((x) => `'${x.code}' (${x.unit})`).join(', ')} attached to the table's ${table.sectors.codes.length} sectors`, where: { file: sf.name } });
+  }
+  const lab = await loadLabels(ctx, flags.labels);
+  if (lab.labels) {
+    const n = applyLabels(table.sectors, lab.labels) + applyLabels(table.finalDemand, lab.labels) + applyLabels(table.valueAdded, lab.labels);
+    extra.push({ role: 'labels', file: lab.file! });
+    findings.push({ code: 'labels-attached', severity: 'note', message: `file ${lab.file!.name}: ${n} titles attached to codes of the table`, where: { file: lab.file!.name } });
+  }
+  const out: LoadedTable = { table, file, findings, extra, mapping: r.mapping, shape: r.shape };
   if (flags.sheet !== undefined) out.sheet = flags.sheet;
   return out;
 }

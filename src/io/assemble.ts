@@ -23,10 +23,12 @@ import { InputError, type Where } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
 import { LeontiefModel } from '../../engine/leontief';
 import type { Matrix } from '../../engine/linalg/matrix';
-import type { Axis, Satellite, Table, TableMeta } from '../../engine/table';
-import { validateTable } from '../../engine/table';
+import type { Axis, ClassedAxis, DemandClass, InputClass, Satellite, Table, TableMeta } from '../../engine/table';
+import { VALUE_ADDED_CLASSES, validateTable } from '../../engine/table';
 import { type Block, DenseBlock, type Entry } from './block';
 import { normalizeCode, TEXT } from './grid';
+import { maximalRuns, runSubtotals } from './rules/run-subtotals';
+import { demandClassOf, inputClassOf } from './rules/classes';
 import {
   COLUMN_ROLES,
   type ColumnRole,
@@ -368,6 +370,13 @@ export function classify(block: Block, options: AssembleOptions): Classified {
   if (demote(true)) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   positional();
   if (demote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
+  // Lines read as data once more (a tax row first taken for a total by its code, T*) may complete
+  // the run a subtotal adds up (GVA = TlSPrdn + CoE + GOS): look for subtotals again.
+  if (!plain) {
+    const was = [...rowRoles, ...colRoles].join('\u0000');
+    findSubtotals(block, rowRoles, colRoles, rowWhy, colWhy, rr, cr);
+    if ([...rowRoles, ...colRoles].join('\u0000') !== was) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
+  }
   if (promote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   if (positional() && promote()) totals = checkTotals(block, rowRoles, colRoles, kind, findings, false);
   checkTotals(block, rowRoles, colRoles, kind, findings, true, totals);
@@ -482,58 +491,45 @@ function findSubtotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[]
   const sectorCols = colRoles.map((r, j) => (r === 'sector' ? block.cols[j]!.pos : -1)).filter((p) => p >= 0);
   const sectorRows = rowRoles.map((r, i) => (r === 'sector' ? i : -1)).filter((i) => i >= 0);
   if (!sectorCols.length || !sectorRows.length) return;
-  /** Whether line t equals the sum of lines `parts` at every position (values read by `at`). */
-  const sums = (at: (line: number, k: number) => number, t: number, parts: number[], count: number): boolean => {
-    let nonzero = 0;
-    for (let k = 0; k < count; k++) {
-      let sum = 0;
-      for (const p of parts) {
-        const v = at(p, k);
-        if (v === v) sum += v;
-      }
-      let found = at(t, k);
-      if (found !== found) found = 0;
-      if (Math.abs(found - sum) > tol(found, sum, parts.length)) return false;
-      if (found !== 0) nonzero++;
-    }
-    return nonzero * 2 > count;
-  };
   // Rows: values across the sector columns.
   const rowVals = new Map<number, Float64Array>();
-  const rowAt = (i: number, k: number) => {
+  const valuesOf = (i: number) => {
     let v = rowVals.get(i);
     if (!v) rowVals.set(i, (v = block.values(i)));
-    return v[sectorCols[k]!]!;
+    return v;
   };
   const primary = ['value-added', 'imports'];
-  rowRoles.forEach((r, t) => {
-    if (!primary.includes(r) || isFixed(rr[t]!)) return;
-    for (const parts of adjacentRuns(rowRoles, t, primary)) {
-      if (sums(rowAt, t, parts, sectorCols.length)) {
-        rowRoles[t] = 'total';
-        const [a, b] = [block.rows[Math.min(...parts)]!.code, block.rows[Math.max(...parts)]!.code];
-        rowWhy[t] = `${rowWhy[t]}, but it is the sum of rows ${a}..${b} in every sector column, so it is read as a subtotal`;
-        return;
-      }
+  for (const [a, b] of maximalRuns(rowRoles, primary)) {
+    const found = runSubtotals({
+      count: b - a + 1,
+      positions: sectorCols.length,
+      at: (l, k) => valuesOf(a + l)[sectorCols[k]!]!,
+      unit,
+      tol,
+      judged: (l) => !isFixed(rr[a + l]!),
+    });
+    for (const s of found) {
+      const t = a + s.line;
+      rowRoles[t] = 'total';
+      rowWhy[t] = `${rowWhy[t]}, but it is the sum of rows ${block.rows[a + s.lo]!.code}..${block.rows[a + s.hi]!.code} in every sector column, so it is read as a subtotal`;
     }
-  });
+  }
   // Columns: values down the sector rows.
-  const colAt = (j: number, k: number) => {
-    let v = rowVals.get(sectorRows[k]!);
-    if (!v) rowVals.set(sectorRows[k]!, (v = block.values(sectorRows[k]!)));
-    return v[block.cols[j]!.pos]!;
-  };
-  colRoles.forEach((r, t) => {
-    if (r !== 'final-demand' || isFixed(cr[t]!)) return;
-    for (const parts of adjacentRuns(colRoles, t, ['final-demand'])) {
-      if (sums(colAt, t, parts, sectorRows.length)) {
-        colRoles[t] = 'total';
-        const [a, b] = [block.cols[Math.min(...parts)]!.code, block.cols[Math.max(...parts)]!.code];
-        colWhy[t] = `${colWhy[t]}, but it is the sum of columns ${a}..${b} in every sector row, so it is read as a subtotal`;
-        return;
-      }
+  for (const [a, b] of maximalRuns(colRoles, ['final-demand'])) {
+    const found = runSubtotals({
+      count: b - a + 1,
+      positions: sectorRows.length,
+      at: (l, k) => valuesOf(sectorRows[k]!)[block.cols[a + l]!.pos]!,
+      unit,
+      tol,
+      judged: (l) => !isFixed(cr[a + l]!),
+    });
+    for (const s of found) {
+      const t = a + s.line;
+      colRoles[t] = 'total';
+      colWhy[t] = `${colWhy[t]}, but it is the sum of columns ${block.cols[a + s.lo]!.code}..${block.cols[a + s.hi]!.code} in every sector row, so it is read as a subtotal`;
     }
-  });
+  }
 
   // A value-added row (or final-demand column) that is the sum of every line before it is total
   // output under a code no pattern knows (such as OUT): a total, which the total checks then
@@ -624,22 +620,23 @@ interface Candidate {
   block?: 'sector' | 'other' | 'imports' | 'primary' | 'all';
   from?: number;
   to?: number;
-  /** Rows (block indices) summed one by one: a run of value-added rows next to a total row. */
-  rows?: number[];
+  /** Rows summed one by one: a run of value-added rows next to a total row, from `start` stepping by `dir`. */
+  run?: { start: number; dir: number; len: number };
 }
 
 /**
  * The runs of two or more lines of the given roles right before and right after line t, nearest
- * first, as lists of indices (every length from 2 up): the parts a subtotal such as 'Gross value
- * added' or 'Final consumption expenditure' may add up.
+ * first (every length from 2 up), as their first and last index and the direction they grow in:
+ * the parts a subtotal such as 'Gross value added' or 'Final consumption expenditure' may add up.
+ * Ranges, never lists, so that a run of 20,000 lines costs 20,000 entries, not 200 million.
  */
-function adjacentRuns(roles: readonly string[], t: number, kinds: readonly string[]): number[][] {
-  const out: number[][] = [];
+function adjacentRuns(roles: readonly string[], t: number, kinds: readonly string[]): { lo: number; hi: number; dir: number; len: number }[] {
+  const out: { lo: number; hi: number; dir: number; len: number }[] = [];
   for (const dir of [-1, 1]) {
-    const run: number[] = [];
+    let len = 0;
     for (let u = t + dir; u >= 0 && u < roles.length && kinds.includes(roles[u]!); u += dir) {
-      run.push(u);
-      if (run.length >= 2) out.push([...run]);
+      len++;
+      if (len >= 2) out.push({ lo: Math.min(t + dir, u), hi: Math.max(t + dir, u), dir, len });
     }
   }
   return out;
@@ -697,9 +694,7 @@ function checkTotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], 
       const cands = tIdx.map((t, q) => candidatesFor(t, q, tIdx, before, parts.length, block.cols, 'column', kind));
       if (kind !== 'matrix' && kind !== 'make') {
         tIdx.forEach((t, q) => {
-          for (const run of adjacentRuns(colRoles, t, ['final-demand'])) {
-            const lo = Math.min(...run);
-            const hi = Math.max(...run);
+          for (const { lo, hi } of adjacentRuns(colRoles, t, ['final-demand'])) {
             cands[q]!.push({ name: `${block.cols[lo]!.code}..${block.cols[hi]!.code}`, from: before[lo]!, to: before[hi]! + 1 });
           }
         });
@@ -786,26 +781,29 @@ function checkTotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], 
       const cands = tIdx.map((t, q) => candidatesFor(t, q, tIdx, before, partCount, block.rows, 'row', kind));
       if (kind !== 'matrix' && kind !== 'make') {
         tIdx.forEach((t, q) => {
-          for (const run of adjacentRuns(rowRoles, t, ['value-added', 'imports'])) {
-            const lo = Math.min(...run);
-            const hi = Math.max(...run);
-            cands[q]!.push({ name: `${block.rows[lo]!.code}..${block.rows[hi]!.code}`, rows: run });
+          for (const { lo, hi, dir, len } of adjacentRuns(rowRoles, t, ['value-added', 'imports'])) {
+            cands[q]!.push({ name: `${block.rows[lo]!.code}..${block.rows[hi]!.code}`, run: { start: dir < 0 ? hi : lo, dir, len } });
           }
         });
       }
-      const runSums = (rows: number[]) => {
-        const a = zero();
-        for (const i of rows) {
-          const v = block.values(i);
+      // Sums of the runs next to a total, grown one row at a time (the runs of each direction come
+      // nearest first, so each row is added once per total and direction).
+      const runAcc = new Map<number, { a: { s: Float64Array; n: Int32Array }; len: number }>();
+      const runSums = (run: { start: number; dir: number; len: number }) => {
+        const key = run.start * 2 + (run.dir > 0 ? 1 : 0);
+        let r = runAcc.get(key);
+        if (!r || r.len > run.len) runAcc.set(key, (r = { a: zero(), len: 0 }));
+        for (; r.len < run.len; r.len++) {
+          const v = block.values(run.start + run.dir * r.len);
           for (let k = 0; k < L; k++) {
             const x = v[pos[k]!]!;
             if (x === x && x !== 0) {
-              a.s[k] += x;
-              a.n[k]++;
+              r.a.s[k] += x;
+              r.a.n[k]++;
             }
           }
         }
-        return a;
+        return r.a;
       };
       const snapAt = (q: number) => (q < 0 ? zero() : q >= snaps.length ? cum : snaps[q]!);
       tIdx.forEach((t, q) => {
@@ -820,7 +818,7 @@ function checkTotals(block: Block, rowRoles: RowRole[], colRoles: ColumnRole[], 
           else if (c.block === 'primary') {
             a = { s: va.s.map((x, k) => x + imp.s[k]!), n: va.n.map((x, k) => x + imp.n[k]!) };
           } else if (c.block === 'all') a = cum;
-          else if (c.rows) a = runSums(c.rows);
+          else if (c.run) a = runSums(c.run);
           else {
             // Ranges are between snapshots: from = index of the total that opens the run (-1 for the start).
             a = snapAt(c.to!);
@@ -1282,6 +1280,11 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
   } else if (want?.from === 'row-sums') {
     x = rowSums(Zd, Fd, n, fd.length, block.decimals);
     from = { from: 'row-sums' };
+  } else if (outCols.length && outRows.length && promotedOutput(c.colWhy[outCols[outCols.length - 1]!]!) && !promotedOutput(c.rowWhy[outRows[outRows.length - 1]!]!)) {
+    // An output row named so (TOut, 'Total output at basic prices') before a column that is output
+    // only as the sum of everything ('Total use for industry output'): the agency's own output.
+    rowOutput(outRows[outRows.length - 1]!);
+    findings.push({ code: 'output-row-chosen', severity: 'note', message: `file ${file}: total output is read from row ${block.rows[outRows[outRows.length - 1]!]!.code}, named output, not from column ${block.cols[outCols[outCols.length - 1]!]!.code}, which is output only as the sum of the columns`, where: { file } });
   } else if (outCols.length) colOutput(outCols[outCols.length - 1]!);
   else if (outRows.length) rowOutput(outRows[outRows.length - 1]!);
   else if (kind === 'coefficients' && fd.length) {
@@ -1347,12 +1350,15 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
     V = { rows: va.length, cols: n, data: Vd };
   }
 
+  const fdAxis = axisOf(block.cols, fd);
+  const vaAxis = axisOf(block.rows, va);
+  setClasses(block, c, fd, va, fdAxis, vaAxis);
   const table: Table = {
     sectors,
     Z,
-    finalDemand: axisOf(block.cols, fd),
+    finalDemand: fdAxis,
     F: { rows: n, cols: fd.length, data: Fd },
-    valueAdded: axisOf(block.rows, va),
+    valueAdded: vaAxis,
     V,
     x,
     satellites,
@@ -1362,6 +1368,37 @@ export function assembleTable(block: Block, options: AssembleOptions, meta: Tabl
   validateTable(table);
   const mapping = mappingOf(block, c, kind, options, { ...extra, output: from, meta: tmeta });
   return { table, mapping, findings };
+}
+
+/** Whether a line is output only because it is the sum of everything (not by its name). */
+function promotedOutput(why: string): boolean {
+  return /so it is read as total output$/.test(why);
+}
+
+/**
+ * Classes of the final-demand columns and primary-input rows (src/io/rules/classes.ts), with the
+ * rule and reason added to each line's why. Imports, product taxes and sales by final buyers kept
+ * on the primary-input axis are then not value added (engine isValueAddedRow).
+ */
+function setClasses(block: Block, c: Classified, fd: number[], va: number[], fdAxis: ClassedAxis<DemandClass>, vaAxis: ClassedAxis<InputClass>): void {
+  const dc = fd.map((j) => {
+    const e = block.cols[j]!;
+    const f = demandClassOf(e.code, e.label, e.group);
+    if (f) c.colWhy[j] = `${c.colWhy[j]}; ${f.why}`;
+    return f?.cls;
+  });
+  // The demand classes are shown in the mapping only for now: nothing in the engine reads them yet,
+  // and the table writers do not write them (a written table must read back identical).
+  void dc;
+  void fdAxis;
+  const vc = va.map((i) => {
+    const e = block.rows[i]!;
+    const f = inputClassOf(e.code, e.label);
+    if (f) c.rowWhy[i] = `${c.rowWhy[i]}; ${f.why}`;
+    return f?.cls;
+  });
+  // Only when some row is then not value added: otherwise every row counts, as without classes.
+  if (vc.some((x) => x !== undefined && !VALUE_ADDED_CLASSES.includes(x))) vaAxis.classes = vc;
 }
 
 const BY_POSITION_ROW = 'its code names no column, after the sector rows';

@@ -20,6 +20,8 @@ export interface Entry {
   unitInLabel?: string;
   /** A role written in the sheet itself (a column or row headed 'role'). */
   role?: string;
+  /** The group header over a column ('Final consumption expenditure' over 'Households'). */
+  group?: string;
   /** Where the code sits, for messages. */
   where?: Where;
 }

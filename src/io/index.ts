@@ -52,3 +52,5 @@ export { sniffFile, readGrid, guessShape, readTableFile, latestPeriod, readLongS
 export type { FileKind, GridOptions, GridRead, ReadFileOptions } from './open';
 export { unpackKeyed, unpackIfKeyed } from './keyed';
 export type { Unpacked } from './keyed';
+export { crossCheckPublished, type PublishedComparison } from './published';
+export { readLabelList, applyLabels } from './labels';

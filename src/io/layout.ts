@@ -533,9 +533,11 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
     });
   }
 
+  const groups = groupHeadersInCodeRow(g, dataCols, codeRow, labelRow, new Set(rowEntries.map((e) => e.code)));
   const colEntries: Entry[] = [];
   for (const j of dataCols) {
-    const code = codeRow !== null ? codeAt(g, codeRow, j) : '';
+    const group = groups.get(j);
+    const code = codeRow !== null && group === undefined ? codeAt(g, codeRow, j) : '';
     const label = labelRow !== null ? normalizeLabel(g.mergedText(labelRow, j)) : '';
     const key = code || normalizeCode(label);
     if (!key) {
@@ -552,6 +554,7 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
       continue;
     }
     const ce: Entry = { code: key, label: label || key, pos: j, at: j + 1, where: g.where(codeRow ?? labelRow ?? 0, j) };
+    if (group !== undefined) ce.group = group;
     if (roleRow !== null) {
       const role = codeAt(g, roleRow, j).toLowerCase();
       if (role) ce.role = role;
@@ -602,6 +605,21 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
   for (const m of g.merges) if (m.top > headerTop && m.top < headerBottom && !headerRows.includes(m.top) && m.top !== codeRow && m.top !== labelRow) headerRows.push(m.top);
   const fromTitles = metaFromTitles(titleTexts);
   for (const [k, v] of Object.entries(fromTitles)) if ((meta as Record<string, unknown>)[k] === undefined) (meta as Record<string, unknown>)[k] = v;
+  // A Year column (rule year-column; fixture: the Scottish IxI sheet, 'Year' on every row): when
+  // it holds one year, that is the table's year, whatever the title's range says.
+  for (let c = 0; c <= leadMax; c++) {
+    const head = [codeRow, labelRow].find((h) => h !== null && /^(year|period|time)$/i.test(codeAt(g, h!, c)));
+    if (head === undefined) continue;
+    const seen = new Set(rowEntries.map((e) => codeAt(g, e.pos, c)).filter(Boolean));
+    if (seen.size === 1) {
+      const y = Number([...seen][0]);
+      if (Number.isInteger(y) && y >= 1900 && y <= 2100) {
+        if (meta.year !== undefined && meta.year !== y) findings.push({ code: 'year-from-column', severity: 'note', message: `file ${g.file}${g.sheet ? `, sheet '${g.sheet}'` : ''}: the year is ${y}, from the '${codeAt(g, head!, c)}' column, not ${meta.year} from the title`, where: gw() });
+        meta.year = y;
+      }
+    }
+    break;
+  }
   if (keptText.length) {
     const src = keptText.find((t) => /^sources?\s*:/i.test(t));
     if (src && meta.source === undefined) meta.source = src.replace(/^sources?\s*:\s*/i, '');
@@ -630,6 +648,33 @@ export function detectStructure(g: Grid, mapping: MappingInput = {}): WideStruct
   };
   if (description !== undefined) out.description = description;
   if (split) out.splitCodes = true;
+  return out;
+}
+
+/**
+ * Group headers written in the code row (rule two-row-header; fixture: the Scottish IxI sheet,
+ * 'Final consumption expenditure' over Households, NPISHs, Central and Local government): a text
+ * in the code row that names no row, reads as words (it has small letters), and is followed by
+ * columns with a label but nothing in the code row is the header of those columns, not a code.
+ * The columns under it take their labels as codes and the group as `group`. Returns column → group.
+ */
+function groupHeadersInCodeRow(g: Grid, dataCols: number[], codeRow: number | null, labelRow: number | null, rowCodes: Set<string>): Map<number, string> {
+  const out = new Map<number, string>();
+  if (codeRow === null || labelRow === null) return out;
+  for (let q = 0; q < dataCols.length; q++) {
+    const j = dataCols[q]!;
+    const t = codeAt(g, codeRow, j);
+    if (!t || rowCodes.has(t) || !/\p{Ll}/u.test(t) || !normalizeLabel(g.mergedText(labelRow, j))) continue;
+    const span = [j];
+    for (let r = q + 1; r < dataCols.length; r++) {
+      const k = dataCols[r]!;
+      if (codeAt(g, codeRow, k) || !normalizeLabel(g.mergedText(labelRow, k))) break;
+      span.push(k);
+    }
+    if (span.length < 2) continue;
+    const group = normalizeLabel(g.text(codeRow, j));
+    for (const k of span) out.set(k, group);
+  }
   return out;
 }
 
@@ -750,8 +795,17 @@ export function metaFromTitles(lines: string[]): TableMeta {
     meta.scaleLabel = k;
     meta.scale = k === 'thousands' ? 1e3 : k === 'millions' ? 1e6 : 1e9;
   }
-  const year = /\b(19[0-9]{2}|20[0-9]{2})\b/.exec(all);
-  if (year) meta.year = Number(year[1]);
+  // The table's year, not a range of years ('Input-Output Tables 1998-2016' names a series):
+  // a year that is not part of a range, else the last year of the range.
+  const years = [...all.matchAll(/\b(19[0-9]{2}|20[0-9]{2})\b(\s*[-\u2013\u2014]\s*(?:19|20)[0-9]{2}\b)?/g)];
+  // Years of a classification ('SIC 2007', 'NACE Rev. 2', 'NAICS 2017', 'SNA 2008') are not the table's.
+  const classification = (m: RegExpExecArray | RegExpMatchArray) => /\b(SIC|NACE|ISIC|NAICS|ANZSIC|CPA|CPC|SNA|ESA|BPM)\s*(rev\.?\s*\d*\s*)?$/i.test(all.slice(0, m.index));
+  const single = years.find((m) => !m[2] && !/[-\u2013\u2014]\s*$/.test(all.slice(0, m.index)) && !classification(m));
+  if (single) meta.year = Number(single[1]);
+  else {
+    const ranges = years.filter((m) => !classification(m));
+    if (ranges.length) meta.year = Number(/(?:19|20)[0-9]{2}$/.exec(ranges[ranges.length - 1]![0])![0]);
+  }
   const price = /\b(basic|producers['’]?|purchasers['’]?|market)\s+prices?\b/i.exec(all);
   if (price) meta.priceBasis = price[0]!.toLowerCase().replace('’', "'");
   const cur = /\b(USD|EUR|GBP|JPY|CNY|AUD|CAD|CHF|SEK|NOK|DKK|NZD|ZAR|INR|BRL|MXN|KRW)\b/.exec(all);

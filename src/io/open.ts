@@ -6,7 +6,7 @@
 import { InputError } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
 import { type CsvOptions, readCsv } from './csv';
-import { EMPTY, type Grid, normalizeCode } from './grid';
+import { EMPTY, type Grid, normalizeCode, NUMBER, TEXT } from './grid';
 import { readTableJson } from './json';
 import { unpackIfKeyed } from './keyed';
 import { type LongOptions, type LongTable, readLongGrid } from './long';
@@ -60,12 +60,22 @@ export async function readGrid(bytes: Uint8Array, options: GridOptions): Promise
  */
 export function guessShape(grid: Grid): 'wide' | 'long' {
   if (grid.colCount > 20 || grid.rowCount < 3) return 'wide';
-  const n = Math.min(grid.rowCount, 5000);
+  // Lines looked at: the first 2,500 and 2,500 spread evenly over the rest (a long file may give
+  // one row code to its first 20,000 lines).
+  const sample: number[] = [];
+  const head = Math.min(grid.rowCount, 2500);
+  for (let r = 0; r < head; r++) sample.push(r);
+  const rest = grid.rowCount - head;
+  if (rest > 0) {
+    const step = Math.max(1, rest / 2500);
+    for (let x = head; x < grid.rowCount; x += step) sample.push(Math.floor(x));
+  }
   // The code fields: the first two columns, passing over any that hold one value on every line
   // (a region, a year, a table number).
   const first = new Map<number, string>();
   const varies = new Set<number>();
-  for (let r = 1; r < n; r++) {
+  for (const r of sample) {
+    if (r === 0) continue;
     const row = grid.rows[r]!;
     for (let c = 0; c < row.kinds.length; c++) {
       if (row.kinds[c] === EMPTY) continue;
@@ -83,7 +93,8 @@ export function guessShape(grid: Grid): 'wide' | 'long' {
   const pairs = new Set<string>();
   let lines = 0;
   let numeric = false;
-  for (let r = 0; r < n; r++) {
+  let oneValueLines = 0; // lines of two text codes and one number
+  for (const r of sample) {
     const row = grid.rows[r]!;
     if (row.kinds.length < 3 || row.kinds[f0] === EMPTY || row.kinds[f1] === EMPTY) continue;
     lines++;
@@ -94,14 +105,25 @@ export function guessShape(grid: Grid): 'wide' | 'long' {
     pairs.add(`${x}\u0000${y}`);
     // A number, or a number kept as text (a value set apart from its flag in a keyed sheet).
     for (let c = f1 + 1; c < row.kinds.length && !numeric; c++) if (row.kinds[c] === 1 || (row.kinds[c] !== EMPTY && /^\s*[-+]?\d[\d.,]*\s*$/.test(grid.text(r, c)))) numeric = true;
+    if (row.kinds[f0] === TEXT && row.kinds[f1] === TEXT) {
+      let nums = 0;
+      for (let c = f1 + 1; c < row.kinds.length; c++) if (row.kinds[c] === NUMBER) nums++;
+      if (nums === 1) oneValueLines++;
+    }
   }
   if (lines < 3 || !numeric) return 'wide';
-  if (a.size > lines * 0.8 || b.size > lines * 0.8) return 'wide';
+  if (a.size > lines * 0.8 || b.size > lines * 0.8) {
+    // A code and a label column (or a code column and numbers) name a new line each time: wide.
+    // But a long file that starts with one sector's row across thousands of columns (row code A,
+    // column codes F1 … F20000) has one field that hardly varies, both fields text, and one number
+    // per line: still long.
+    if (!(Math.min(a.size, b.size) <= lines * 0.1 && pairs.size >= lines * 0.9 && oneValueLines >= lines * 0.9)) return 'wide';
+  }
   if (pairs.size >= lines * 0.9) return 'long';
   // Pairs repeat (several years or regions in one download): still long when a header names the
   // value field and the file has few fields; the long reader then asks which lines to keep.
-  const head = grid.rows[0];
-  const named = head && head.kinds.some((k, c) => k !== EMPTY && /^(value|values|amount|obs_value|flow|flows)$/i.test(grid.text(0, c).trim()));
+  const top = grid.rows[0];
+  const named = top && top.kinds.some((k, c) => k !== EMPTY && /^(value|values|amount|obs_value|flow|flows)$/i.test(grid.text(0, c).trim()));
   return named && grid.colCount <= 20 ? 'long' : 'wide';
 }
 

@@ -14,7 +14,7 @@ import type { Axis, Satellite, Table } from '../../engine/table';
 import { validateTable } from '../../engine/table';
 import { classify, mappingOf, readCells } from './assemble';
 import type { Block } from './block';
-import type { Grid } from './grid';
+import { EMPTY, type Grid, NUMBER, normalizeCode, normalizeLabel } from './grid';
 import { detectStructure } from './layout';
 import type { LayoutMapping, MappingInput } from './mapping';
 import { roleOverrides, ROW_ROLES } from './mapping';
@@ -37,9 +37,72 @@ export interface SatelliteRead {
   findings: Finding[];
 }
 
+/**
+ * A unit named by the words of a heading when none is written apart ('employed_persons_fte',
+ * 'Employment (FTE)', 'jobs', 'CO2 emissions, tonnes'): full-time equivalents, persons, jobs,
+ * tonnes. Undefined when the words name none.
+ */
+export function unitFromWords(label: string): string | undefined {
+  const w = label.toLowerCase().replace(/[_\-]+/g, ' ');
+  if (/\bfte\b|\bfull time equivalent/.test(w)) return 'FTE';
+  if (/\bjobs?\b/.test(w)) return 'jobs';
+  if (/\b(persons?|people|employees|workers|headcount)\b/.test(w)) return 'persons';
+  if (/\bkt\b|\bkilotonnes?\b/.test(w)) return 'kt';
+  if (/\btonnes?\b|\bt co2/.test(w)) return 't';
+  return undefined;
+}
+
+/**
+ * A satellite file as the simplest agencies and analysts write it (rule satellite-columns;
+ * fixture: the ABS 5246.0 employment table, `code,employed_persons_fte`): a header row, a column
+ * of sector codes (the one naming most of the table's sectors), and one or more value columns,
+ * each with its unit in the heading's words or brackets. Used when the sheet has too few numbers
+ * per row for the table layout.
+ */
+function readSatelliteColumns(grid: Grid, sectors: Axis): SatelliteRead {
+  const file = grid.file;
+  const known = new Set(sectors.codes);
+  let codeCol = -1;
+  let best = 0;
+  for (let c = 0; c < grid.colCount; c++) {
+    let n = 0;
+    for (let r = 0; r < grid.rowCount; r++) if (known.has(normalizeCode(grid.text(r, c)))) n++;
+    if (n > best) [best, codeCol] = [n, c];
+  }
+  if (codeCol < 0) throw new InputError('no-rows', `file ${file}: no column of the satellite file holds the table's sector codes (such as '${sectors.codes[0] ?? ''}')`, { file }, "Put the table's sector codes in one column");
+  const rows: number[] = [];
+  for (let r = 0; r < grid.rowCount; r++) if (known.has(normalizeCode(grid.text(r, codeCol)))) rows.push(r);
+  const head = rows[0]! - 1;
+  const satellites: Satellite[] = [];
+  for (let c = 0; c < grid.colCount; c++) {
+    if (c === codeCol || !rows.every((r) => grid.kind(r, c) === NUMBER || grid.kind(r, c) === EMPTY) || !rows.some((r) => grid.kind(r, c) === NUMBER)) continue;
+    const label = head >= 0 ? normalizeLabel(grid.text(head, c)) : `column ${c + 1}`;
+    const m = /[[(]([^\])[(]+)[\])]\s*$/.exec(label);
+    const unit = m?.[1]?.trim() ?? unitFromWords(label);
+    if (!unit) throw new InputError('no-unit', `file ${file}: satellite column '${label}' has no unit`, grid.where(Math.max(head, 0), c), "Write the unit in brackets at the end of the heading, such as 'Employment (FTE)', or name it in the heading's words (jobs, persons, FTE, tonnes)");
+    const values = Float64Array.from(rows, (r) => (grid.kind(r, c) === NUMBER ? grid.rows[r]!.values[c]! : 0));
+    satellites.push({ code: normalizeCode(label) || `C${c + 1}`, label, unit, values });
+  }
+  if (!satellites.length) throw new InputError('no-rows', `file ${file}: no column of numbers beside the sector codes`, { file }, 'Give one or more value columns beside the codes');
+  const codes = rows.map((r) => normalizeCode(grid.text(r, codeCol)));
+  return {
+    satellites,
+    sectors: { codes, labels: codes },
+    orientation: 'sectors-down',
+    mapping: { format: 'ripplewise-layout', version: 1, kind: 'matrix', shape: 'wide', file, rows: [], columns: [], output: { from: 'assumed' }, blanks: 'zero' } as LayoutMapping,
+    findings: [{ code: 'satellite-columns', severity: 'note', message: `file ${file}: sector codes read from column ${codeCol + 1}, values from ${satellites.map((x) => `'${x.label}' (unit ${x.unit})`).join(', ')}`, where: { file } }],
+  };
+}
+
 /** Read satellite rows from a sheet. */
 export function readSatellites(grid: Grid, options: SatelliteOptions = {}): SatelliteRead {
-  const s = detectStructure(grid, options.mapping);
+  let s: ReturnType<typeof detectStructure>;
+  try {
+    s = detectStructure(grid, options.mapping);
+  } catch (e) {
+    if (e instanceof InputError && e.code === 'no-numbers' && options.sectors && !options.mapping) return readSatelliteColumns(grid, options.sectors);
+    throw e;
+  }
   const block = s.block;
   const file = grid.file;
   const unitRow = block.rows.findIndex((e) => /^units?$/i.test(e.code));
@@ -75,7 +138,7 @@ export function readSatellites(grid: Grid, options: SatelliteOptions = {}): Sate
     sectors = { codes: sc.map((j) => b.cols[j]!.code), labels: sc.map((j) => b.cols[j]!.label) };
     for (const i of sr) {
       const e = b.rows[i]!;
-      const unit = rowO.byCode.get(e.code)?.unit ?? e.unit ?? e.unitInLabel;
+      const unit = rowO.byCode.get(e.code)?.unit ?? e.unit ?? e.unitInLabel ?? unitFromWords(e.label);
       if (!unit) throw noUnit(e.code, e.label, e.where ?? {});
       satellites.push({ code: e.code, label: e.label, unit, values: readCells(b, [i], sc, `satellite row '${e.code}'`, base) });
     }
@@ -84,7 +147,7 @@ export function readSatellites(grid: Grid, options: SatelliteOptions = {}): Sate
     for (const j of sc) {
       const e = b.cols[j]!;
       const m = /[[(]([^\])[(]+)[\])]\s*$/.exec(e.label);
-      const unit = unitTexts.get(j) ?? m?.[1]?.trim();
+      const unit = unitTexts.get(j) ?? m?.[1]?.trim() ?? unitFromWords(e.label);
       if (!unit) throw noUnit(e.code, e.label, e.where ?? {});
       satellites.push({ code: e.code, label: e.label, unit, values: readCells(b, sr, [j], `satellite column '${e.code}'`, base) });
     }

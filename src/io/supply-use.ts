@@ -10,6 +10,8 @@
  * zero cells, are allowed to miss rows or columns that would be zero). Commodities that only
  * the use table lists (noncomparable imports, for example) are kept: no industry makes them.
  */
+import { proposeScrap } from './rules/scrap';
+import { applyLabels } from './labels';
 import { InputError } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
 import type { Matrix } from '../../engine/linalg/matrix';
@@ -20,8 +22,10 @@ import type { LayoutMapping, MappingInput } from './mapping';
 import { sourceBlock, type TableSource } from './tables';
 
 export interface SupplyUseOptions {
-  /** The code of the scrap (used and second-hand goods) commodity, passed to the engine. */
+  /** The code of the scrap (used and second-hand goods) commodity, passed to the engine; 'none' for no adjustment; default: proposed. */
   scrap?: string;
+  /** Titles by code (readLabelList), for tables that carry codes only. */
+  labels?: ReadonlyMap<string, string>;
   technology?: Technology;
   /** Mappings for each table (as reported, or parts of them). */
   makeMapping?: MappingInput;
@@ -104,7 +108,27 @@ export function readSupplyUse(makeSource: TableSource, useSource: TableSource, o
 
   // Industries: the make table's, and the use table's industry columns.
   const mkIndSet = new Set(mkInd);
-  const useOnlyInd = useInd.filter((c) => !mkIndSet.has(c));
+  let useOnlyInd = useInd.filter((c) => !mkIndSet.has(c));
+  // Rule use-columns-as-final-demand (fixture: numeric final-use codes in a use table): columns of
+  // the use table that are not industries of the make table (and not value added) are final
+  // demand, with a note naming them; the make table says which industries there are.
+  // Only when every industry of the make table has its column: otherwise a column coded otherwise
+  // (I3 for I2) is more likely a typo, and the disagreement is an error.
+  if (useOnlyInd.length && mkInd.length && useOnlyInd.length < useInd.length && mkInd.every((c) => indSet.has(c))) {
+    const moved = new Set(useOnlyInd);
+    const cols = use.sectorCols.filter((j) => moved.has(use.block.cols[j]!.code));
+    for (const j of cols) {
+      use.classified.colRoles[j] = 'final-demand';
+      use.classified.colWhy[j] = `${use.classified.colWhy[j]}, but the make table has no such industry, so it is read as final demand`;
+    }
+    use.sectorCols = use.sectorCols.filter((j) => !moved.has(use.block.cols[j]!.code));
+    use.finalDemand = [...use.finalDemand, ...cols].sort((a, b) => a - b);
+    useInd.splice(0, useInd.length, ...codesOf(use, 'cols', use.sectorCols));
+    indSet.clear();
+    for (const c of useInd) indSet.add(c);
+    findings.push({ code: 'use-columns-final-demand', severity: 'note', message: `file ${uf}: ${useOnlyInd.length} column${useOnlyInd.length > 1 ? 's' : ''} of the use table ${useOnlyInd.length > 1 ? 'are' : 'is'} not an industry of the make table (file ${mf}), so ${useOnlyInd.length > 1 ? 'they are' : 'it is'} read as final demand: ${listCodes(useOnlyInd)}; set ${useOnlyInd.length > 1 ? 'their roles' : 'its role'} in the use mapping if not`, where: { file: uf } });
+    useOnlyInd = [];
+  }
   const makeOnlyInd = mkInd.filter((c) => !indSet.has(c));
   if (useOnlyInd.length) {
     const j = use.sectorCols[useInd.indexOf(useOnlyInd[0]!)]!;
@@ -163,6 +187,10 @@ export function readSupplyUse(makeSource: TableSource, useSource: TableSource, o
   const comCodes = [...useCom, ...makeOnlyCom];
   const industries: Axis = { codes: indCodes, labels: indCodes.map((c) => pickLabel(c, indLabels)) };
   const commodities: Axis = { codes: comCodes, labels: comCodes.map((c) => pickLabel(c, comLabels)) };
+  if (options.labels) {
+    const n = applyLabels(industries, options.labels) + applyLabels(commodities, options.labels);
+    findings.push({ code: 'labels-attached', severity: 'note', message: `${n} industry and commodity titles taken from the list of codes and titles`, where: {} });
+  }
   const ni = indCodes.length;
   const nc = comCodes.length;
   const indIdx = new Map(indCodes.map((c, i) => [c, i]));
@@ -215,13 +243,17 @@ export function readSupplyUse(makeSource: TableSource, useSource: TableSource, o
     make: { rows: ni, cols: nc, data: makeM },
     use: { rows: nc, cols: ni, data: useM },
   };
-  if (options.scrap !== undefined) input.scrap = options.scrap;
+  if (options.scrap !== undefined && options.scrap.toLowerCase() !== 'none') input.scrap = options.scrap;
   if (options.technology) input.technology = options.technology;
   if (options.scrap === undefined) {
-    const s = commodities.labels.findIndex((l) => /\bscrap\b|second-?hand/i.test(l));
-    if (s >= 0) {
-      findings.push({ code: 'scrap-commodity', severity: 'note', message: `commodity '${commodities.codes[s]}' ('${commodities.labels[s]}') looks like scrap; pass scrap: '${commodities.codes[s]}' for the scrap adjustment`, where: { sector: commodities.codes[s]! } });
+    // No scrap given: propose it from its title or the make table's structure, and adopt it.
+    const p = proposeScrap(commodities, makeM, ni);
+    if (p) {
+      input.scrap = p.code;
+      findings.push({ code: 'scrap-commodity', severity: 'note', message: `commodity '${p.code}' is taken for scrap (rule scrap-proposal, by ${p.rule}: ${p.why}), and its output is taken out of the market shares; give scrap: 'none' (the command line: --scrap none) to leave it in, or another code`, where: { sector: p.code }, data: { scrap: p.code, rule: p.rule } });
     }
+  } else if (options.scrap.toLowerCase() === 'none') {
+    findings.push({ code: 'scrap-none', severity: 'note', message: 'no scrap adjustment, as asked (scrap: none)', where: {} });
   }
 
   // In supply and use tables rows and columns are different classifications, so no code names

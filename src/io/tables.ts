@@ -189,7 +189,20 @@ function looksLikeCoefficients(r: TableRead): string | undefined {
   for (let k = 0; k < z.length; k++) if (!(z[k]! >= 0 && z[k]! < 1)) return undefined;
   const words = [t.meta.title ?? '', ...(t.meta.notes ?? [])].join(' ');
   if (COEFFICIENT_WORDS.test(words)) return 'its title speaks of coefficients';
-  if (t.V.rows === 0) return undefined;
+  if (t.V.rows === 0) {
+    // Rule coefficients-by-content: no primary-input rows, every column of the intermediate block
+    // sums below 1, and final demand (if any) is in levels (some value of 1 or more): flows in
+    // such small units would have final demand as small.
+    let fdMax = 0;
+    for (const v of t.F.data) fdMax = Math.max(fdMax, Math.abs(v));
+    if (t.F.cols > 0 && fdMax < 1) return undefined;
+    for (let j = 0; j < n; j++) {
+      let s = 0;
+      for (let i = 0; i < n; i++) s += z[i * n + j]!;
+      if (!(s < 1)) return undefined;
+    }
+    return 'every value of the intermediate block lies in [0, 1), every column sums below 1, and there is no total output or value added';
+  }
   for (let j = 0; j < n; j++) {
     let s = 0;
     for (let i = 0; i < n; i++) s += z[i * n + j]!;

@@ -19,6 +19,7 @@
  * `readXlsx(bytes, { file, sheet, maxRows })` reads just a sheet's first rows: together they are
  * the cheap way to choose a sheet by its content.
  */
+import { BODY_ROWS, chooseSheet } from './sheet-choice';
 import { InputError } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
 import { whereAt } from './csv';
@@ -583,19 +584,21 @@ export async function readXlsx(bytes: Uint8Array, options: XlsxOptions): Promise
   if (want === undefined) {
     // The first sheet that looks like a table (rows with several numbers), else the first with cells:
     // agency workbooks often open with a contents or notes sheet. Each is looked at over its first rows only.
-    const peek = { ...options, maxRows: Math.min(CHOOSE_ROWS, options.maxRows ?? Infinity) };
+    // By content first (sheet-choice.ts): the sheet whose header row and lead column share most codes.
+    const peek = { ...options, maxRows: Math.min(Math.max(CHOOSE_ROWS, BODY_ROWS), options.maxRows ?? Infinity) };
     const seen = new Map<XlsxSheetInfo, GridRow[]>();
     const look = (s: XlsxSheetInfo) => {
       let rows = seen.get(s);
       if (!rows) seen.set(s, (rows = scanSheet(pkg, s, sst, dates, peek, limits).rows));
       return rows;
     };
-    const tabular = pkg.sheets.find((s) => numericRows(look(s)) >= 2);
+    const chosen = pkg.sheets.length > 1 ? chooseSheet(pkg.sheets.map((s) => ({ name: s.name, info: s, rows: look(s) }))) : undefined;
+    const tabular = chosen?.sheet.info ?? pkg.sheets.find((s) => numericRows(look(s)) >= 2);
     info = tabular ?? pkg.sheets.find((s) => hasCells(look(s))) ?? pkg.sheets[0];
-    // The other sheets named in the note are those with cells: after the one chosen, read up to their first cell only.
-    const at = info ? pkg.sheets.indexOf(info) : -1;
-    const others = pkg.sheets.filter((s, i) => s !== info && hasCells(i < at || seen.has(s) ? look(s) : scanSheet(pkg, s, sst, dates, peek, limits, true).rows)).map((s) => s.name);
-    if (info && others.length) {
+    const others = pkg.sheets.filter((s) => s !== info && hasCells(look(s))).map((s) => s.name);
+    if (chosen && others.length) {
+      findings.push({ code: 'sheet-chosen', severity: 'note', message: `file ${file}: read sheet '${chosen.sheet.name}': ${chosen.why}; other candidates: ${chosen.others.map((o) => `'${o.name}' (${o.codes} codes${o.kind !== 'flows' ? `, named as ${o.kind}` : ''})`).join(', ') || 'none'}; the workbook also has ${others.map((s) => `'${s}'`).join(', ')} (choose one with sheet)`, where: { file, sheet: chosen.sheet.name }, data: { candidates: chosen.others.map((o) => o.name) } });
+    } else if (info && others.length) {
       findings.push({ code: 'sheet-chosen', severity: 'note', message: `file ${file}: read sheet '${info.name}', the first ${tabular ? 'that holds a table of numbers' : 'with cells'}; the workbook also has ${others.map((s) => `'${s}'`).join(', ')} (choose one with sheet)`, where: { file, sheet: info.name } });
     }
   } else if (typeof want === 'number') {

@@ -118,6 +118,19 @@ describe.skipIf(!have)(`src/io reads the published tables (source: ${BEA_SOURCE}
     expect(worst).toBeLessThan(1e-6);
   });
 
+  it('with no scrap given, proposes S004 from the make table (made by many industries, the main product of none), and Table 8 still matches within 1e-6', () => {
+    const proposed = readSupplyUse(make, use, {});
+    expect(proposed.input.scrap).toBe('S004');
+    expect(proposed.findings.find((f) => f.code === 'scrap-commodity')?.message).toMatch(/'S004' is taken for scrap \(rule scrap-proposal, by structure/);
+    const { worst, cells } = worstAgainst('total-requirements-industry-by-industry.txt', proposed, 'industry-by-industry');
+    expect(cells).toBe(17161);
+    expect(worst).toBeLessThan(1e-6);
+    // scrap: none leaves it in the market shares, and Table 8 (derived with the adjustment) then differs.
+    const none = readSupplyUse(make, use, { scrap: 'none' });
+    expect(none.input.scrap).toBeUndefined();
+    expect(worstAgainst('total-requirements-industry-by-industry.txt', none, 'industry-by-industry').worst).toBeGreaterThan(1e-4);
+  });
+
   it('make.txt + use.xlsx: Table 7 within 1e-6 in every cell', () => {
     const { worst, cells } = worstAgainst('total-requirements-industry-by-commodity.txt', fromXlsx, 'industry-by-commodity');
     expect(cells).toBe(17554);

@@ -69,3 +69,18 @@ describe('coefficient tables', () => {
     expect(r.findings.some((x) => x.code === 'read-as-coefficients')).toBe(false);
   });
 });
+
+describe('coefficients by content (no value-added rows)', () => {
+  it('reads A with final demand in levels as coefficients, and flows in small units as flows', () => {
+    // Invented: A = [[0.1, 0.3], [0.2, 0.25]], final demand 100 and 50; x = (I − A)⁻¹ f checked with ml-matrix.
+    const r = readTable(readCsv('code,A,B,FD\nA,0.1,0.3,100\nB,0.2,0.25,50\n', { file: 'a.csv' }).grid);
+    expect(r.mapping.kind).toBe('coefficients');
+    expect(r.findings.find((f) => f.code === 'read-as-coefficients')?.message).toMatch(/every column sums below 1/);
+    const x = solve(new MlMatrix([[0.9, -0.3], [-0.2, 0.75]]), MlMatrix.columnVector([100, 50])).to1DArray();
+    expect(r.table.x[0]).toBeCloseTo(x[0]!, 9);
+    expect(r.table.x[1]).toBeCloseTo(x[1]!, 9);
+    // Final demand as small as the intermediate block: flows in large units, not coefficients.
+    const f = readTable(readCsv('code,A,B,FD\nA,0.1,0.3,0.5\nB,0.2,0.25,0.4\n', { file: 'f.csv' }).grid);
+    expect(f.mapping.kind).toBe('flows');
+  });
+});

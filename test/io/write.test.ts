@@ -7,7 +7,8 @@
 import ExcelJS from 'exceljs';
 import fc from 'fast-check';
 import { describe, expect, it } from 'vitest';
-import { makeTable, type Table } from '../../engine/table';
+import { makeTable, VALUE_ADDED_CLASSES, type Table } from '../../engine/table';
+import { inputClassOf } from '../../src/io/rules/classes';
 import { readCsv } from '../../src/io/csv';
 import { neutraliseText, protectText, restoreText } from '../../src/io/escape';
 import { readMatrixJson, readTableJson } from '../../src/io/json';
@@ -71,10 +72,20 @@ const tableArb = fc
 
 /** Numbers as compared: -0 is written as 0 (a spreadsheet cannot tell them apart). */
 const nums = (a: ArrayLike<number>) => Array.from(a, (v) => v + 0);
-const same = (a: Table, b: Table) => {
+/**
+ * The primary-input axis as read back: a written file carries codes and labels, not classes, so a
+ * reader classes rows coded or titled as imports or product taxes (SNA P7, D21) again, as it would
+ * on any agency file; classes are kept only when some row is then not value added. JSON keeps them.
+ */
+const readBack = (axis: Table['valueAdded']) => {
+  if (axis.classes) return axis;
+  const classes = axis.codes.map((c, i) => inputClassOf(c, axis.labels[i]!)?.cls);
+  return classes.some((x) => x !== undefined && !VALUE_ADDED_CLASSES.includes(x)) ? { ...axis, classes } : axis;
+};
+const same = (a: Table, b: Table, exact = false) => {
   expect(b.sectors).toEqual(a.sectors);
   expect(b.finalDemand).toEqual(a.finalDemand);
-  expect(b.valueAdded).toEqual(a.valueAdded);
+  expect(b.valueAdded).toEqual(exact ? a.valueAdded : readBack(a.valueAdded));
   expect(nums(b.Z.data)).toEqual(nums(a.Z.data));
   expect(nums(b.F.data)).toEqual(nums(a.F.data));
   expect(nums(b.V.data)).toEqual(nums(a.V.data));
@@ -150,7 +161,7 @@ describe('round trips: write, read back, the identical table', () => {
 
   it('JSON, for random tables', () => {
     fc.assert(
-      fc.property(tableArb, (t) => same(t, readTableJson(writeTableJson(t)))),
+      fc.property(tableArb, (t) => same(t, readTableJson(writeTableJson(t)), true)),
       { numRuns: 300 * SCALE },
     );
   });

@@ -34,7 +34,7 @@ describe('agency-style workbooks', () => {
   it('skip a contents sheet, say which sheet was read, and read the table', async () => {
     const x = await readXlsx(await workbook(), { file: 'n.xlsx' });
     expect(x.sheet).toBe('Table 2');
-    expect(x.findings.find((f) => f.code === 'sheet-chosen')?.message).toMatch(/read sheet 'Table 2', the first that holds a table of numbers; the workbook also has 'Contents'/);
+    expect(x.findings.find((f) => f.code === 'sheet-chosen')?.message).toMatch(/read sheet 'Table 2': its header row and lead column share \d+ codes, the largest such block; other candidates: none; the workbook also has 'Contents'/);
     const r = readTable(x.grid);
     const t = r.table;
     expect(t.sectors.labels).toEqual(['Agriculture', 'Manufacturing', 'Services']);

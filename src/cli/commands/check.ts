@@ -3,7 +3,9 @@ import type { Command } from 'commander';
 import { checks } from '../../../engine/checks';
 import type { Finding } from '../../../engine/findings';
 import { hasErrors, sortFindings } from '../../../engine/findings';
+import { LeontiefModel } from '../../../engine/leontief';
 import { moneyUnit } from '../../../engine/table';
+import { crossCheckPublished, sniffFile } from '../../io/index';
 import { buildReport, checksSection, describeTable } from '../../report/model';
 import type { CommonFlags } from '../common';
 import { examples, numberOption, outputOptions, reportBase, reportInputs, reportWriters, tableLine, tableOptions } from '../common';
@@ -37,14 +39,33 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
   cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
 }
 
+/**
+ * The agency's own published inverse and multipliers in the same workbook, compared with ours
+ * (src/io/published.ts). Workbooks only, and tables small enough to invert whole.
+ */
+async function publishedFindings(loaded: Awaited<ReturnType<typeof loadTable>>): Promise<Finding[]> {
+  const t = loaded.table;
+  if (loaded.shape !== 'wide' || sniffFile(loaded.file.bytes, loaded.file.name) !== 'xlsx' || t.sectors.codes.length > 3000) return [];
+  let L;
+  try {
+    L = LeontiefModel.fromTable(t).inverse();
+  } catch {
+    return []; // a singular I − A is reported by the checks themselves
+  }
+  const sheet = (loaded.mapping as { sheet?: string } | undefined)?.sheet;
+  return (await crossCheckPublished(loaded.file.bytes, loaded.file.name, t, L, sheet)).findings;
+}
+
 async function action(ctx: import('../context').CliContext, name: string, f: Flags): Promise<number> {
   const plan = planOutputs(f, ['json', 'html', 'xlsx', 'csv']);
   const balanceTolerance = numberOption(f.balanceTolerance, '--balance-tolerance', { min: 0 });
   const conditionLimit = numberOption(f.conditionLimit, '--condition-limit', { min: 1 });
   const loaded = await loadTable(ctx, name, f);
   const t = loaded.table;
+  const published = await publishedFindings(loaded);
   const found: Finding[] = sortFindings([
     ...loaded.findings,
+    ...published,
     ...checks(t, { ...(balanceTolerance !== undefined ? { balanceTolerance } : {}), ...(conditionLimit !== undefined ? { conditionLimit } : {}) }),
   ]);
   const failed = hasErrors(found);

@@ -9,7 +9,10 @@ import type { CliContext } from '../context';
 import { UsageError } from '../errors';
 import type { Action } from '../main';
 import { deliver, planOutputs } from '../output';
-import { loadTable } from '../table-input';
+import { InputError } from '../../../engine/errors';
+import { detectLayout, guessShape, readGrid } from '../../io/index';
+import { readInput } from '../files';
+import { loadTable, sheetOption } from '../table-input';
 import { tableJson, tableWriters } from '../table-out';
 import { moneyUnit } from '../../../engine/table';
 
@@ -38,9 +41,38 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
   cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
 }
 
+/**
+ * --print-mapping: the detected layout, always. When reading the table then fails, the layout is
+ * still printed (detected without reading the cells), with the error and the role to change, and
+ * the error is raised after it (so the exit code says the read failed).
+ */
+async function printMappingAlways(ctx: CliContext, name: string, f: Flags): Promise<number> {
+  try {
+    const loaded = await loadTable(ctx, name, f);
+    ctx.stdout.write(JSON.stringify(loaded.mapping ?? null, null, 2) + '\n');
+    return 0;
+  } catch (e) {
+    if (!(e instanceof InputError)) throw e;
+    let detected: { mapping?: unknown; findings?: unknown[] } = {};
+    try {
+      const file = await readInput(ctx, name, 'table');
+      const { grid } = await readGrid(file.bytes, { file: name, ...(f.sheet !== undefined ? { sheet: sheetOption(f.sheet)! } : {}) });
+      if ((f.shape ?? guessShape(grid)) === 'wide') detected = detectLayout(grid);
+    } catch (e2) {
+      detected = { findings: [{ code: (e2 as InputError).code ?? 'error', severity: 'error', message: (e2 as Error).message }] };
+    }
+    const sector = (e.where as { sector?: string } | undefined)?.sector;
+    const change = sector ? `set the role of '${sector}' in the mapping's rows or columns (for example "rows": { "${sector}": "ignore" }), or fix the file` : 'edit the roles in this mapping and pass it back with --mapping';
+    const out = { ...((detected.mapping as object) ?? { format: 'ripplewise-layout', version: 1 }), findings: detected.findings ?? [], error: { code: e.code, message: e.message, change } };
+    ctx.stdout.write(JSON.stringify(out, null, 2) + '\n');
+    throw e;
+  }
+}
+
 async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   if (f.printMapping && (f.out?.length || f.format || f.json)) throw new UsageError('--print-mapping prints the layout alone: leave out --out, --format and --json', 'conflict');
   const plan = planOutputs(f, FORMATS);
+  if (f.printMapping) return printMappingAlways(ctx, name, f);
   const loaded = await loadTable(ctx, name, f);
   const t = loaded.table;
   if (f.printMapping) {

@@ -23,7 +23,7 @@ import { list } from '../model-options';
 import { deliver, planOutputs } from '../output';
 import { progress } from '../progress';
 import { loadSupplyUse } from '../supply-use-input';
-import { blanksOption, numberOptions, selectOption } from '../table-input';
+import { blanksOption, loadLabels, numberOptions, selectOption } from '../table-input';
 import { CAUTION_LINE, findingsText } from '../text';
 
 interface Flags extends CommonFlags {
@@ -31,6 +31,7 @@ interface Flags extends CommonFlags {
   use?: string;
   kind?: string;
   scrap?: string;
+  labels?: string;
   technology?: string;
   valueAdded?: string;
   finalDemand?: string;
@@ -63,7 +64,8 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
     .requiredOption('--make <file>', 'the make (supply) table: industries × commodities, a sheet or a long file')
     .requiredOption('--use <file>', 'the use table: commodities × industries with final-demand columns and value-added rows, a sheet or a long file')
     .requiredOption('-k, --kind <kind>', REQUIREMENTS_KINDS.join('|'))
-    .option('--scrap <code>', 'the commodity code of scrap and second-hand goods (its output is taken out of market shares)')
+    .option('--labels <file>', 'a list of codes and titles (CSV, TSV, XLSX or lines of code and title) for make and use tables that carry codes only')
+    .option('--scrap <code>', 'the commodity code of scrap and second-hand goods (its output is taken out of market shares), or none (default: proposed from its title or the make table, with a note)')
     .option('--technology <assumption>', 'industry (default: market shares) or commodity (needs as many industries as commodities)')
     .option('--value-added <patterns>', 'codes of value-added rows of the use table, comma-separated patterns such as V*,T* (default: V* and the usual labels)')
     .option('--final-demand <patterns>', 'codes of final-demand columns of the use table, such as F* (default: F* and the usual labels)')
@@ -95,6 +97,7 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
   const useValue = numberOption(f.useValueColumn, '--use-value-column', { min: 1, integer: true });
   const blanks = blanksOption(f.blanks);
   const plan = planOutputs(f, FORMATS);
+  const { labels } = await loadLabels(ctx, f.labels);
   const bar = await progress(ctx, 'requirements', 3, f);
   let loaded;
   try {
@@ -106,6 +109,7 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
       { make: { ...(f.makeSheet !== undefined ? { sheet: f.makeSheet } : {}), ...(makeValue !== undefined ? { valueColumn: makeValue } : {}) }, use: { ...(f.useSheet !== undefined ? { sheet: f.useSheet } : {}), ...(useValue !== undefined ? { valueColumn: useValue } : {}) } },
       {
         ...(f.scrap !== undefined ? { scrap: f.scrap } : {}),
+        ...(labels ? { labels } : {}),
         ...(f.technology ? { technology: f.technology as Technology } : {}),
         ...(f.valueAdded !== undefined ? { valueAdded: list(f.valueAdded)! } : {}),
         ...(f.finalDemand !== undefined ? { finalDemand: list(f.finalDemand)! } : {}),
@@ -122,8 +126,22 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
   }
   const { read } = loaded;
   const model = supplyUse(read.input);
-  const R = model.requirements(kind);
-  const ax = model.axes(kind);
+  // The scrap commodity used: given, or proposed by the reader (a 'scrap-commodity' note names it).
+  const scrap = read.input.scrap;
+  const scrapFrom = f.scrap !== undefined ? 'given' : scrap ? 'guessed' : 'default';
+  let R = model.requirements(kind);
+  let ax = model.axes(kind);
+  // Direct requirements as agencies publish them: the value-added rows per unit of industry output
+  // below the commodity rows (V ĝ⁻¹).
+  const va = read.valueAdded;
+  if (kind === 'direct' && va.V.rows > 0) {
+    const ni = R.cols;
+    const data = new Float64Array((R.rows + va.V.rows) * ni);
+    data.set(R.data);
+    for (let a = 0; a < va.V.rows; a++) for (let j = 0; j < ni; j++) data[(R.rows + a) * ni + j] = model.g[j]! > 0 ? va.V.data[a * ni + j]! / model.g[j]! : 0;
+    R = { rows: R.rows + va.V.rows, cols: ni, data };
+    ax = { rows: { codes: [...ax.rows.codes, ...va.axis.codes], labels: [...ax.rows.labels, ...va.axis.labels] }, cols: ax.cols };
+  }
   const findings = sortFindings([...read.findings, ...model.findings]);
   if (findings.some((x) => x.severity === 'error')) throw new InputError('supply-use-errors', `the make and use tables cannot be used: ${findings.filter((x) => x.severity === 'error').map((x) => x.message).join('; ')}`);
   const k = KIND_TEXT[kind];
@@ -132,7 +150,7 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
   const settings = [
     setting('kind', 'Requirements', kind, 'given'),
     setting('technology', 'Technology assumption', model.technology, f.technology ? 'given' : 'default'),
-    setting('scrap', 'Scrap commodity', f.scrap ?? null, f.scrap ? 'given' : 'default', f.scrap ? undefined : 'No scrap adjustment'),
+    setting('scrap', 'Scrap commodity', scrap ?? null, scrapFrom, scrap ? undefined : 'No scrap adjustment'),
     setting('makeValueColumn', 'Make: value field', (read.mappings.make.valueField as number | undefined) ?? null, makeValue !== undefined ? 'given' : 'guessed'),
     setting('useValueColumn', 'Use: value field', (read.mappings.use.valueField as number | undefined) ?? null, useValue !== undefined ? 'given' : 'guessed'),
   ];
@@ -157,21 +175,21 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
       settings,
       assumptions: [
         model.technology === 'industry'
-          ? 'Industry technology: each industry has one input structure whatever it makes, and commodities are supplied in fixed market shares (D = V̄ q̂⁻¹)' + (f.scrap ? `, with the output of scrap ('${f.scrap}') taken out of the market shares (W = (I − p̂)⁻¹ D).` : '.')
+          ? 'Industry technology: each industry has one input structure whatever it makes, and commodities are supplied in fixed market shares (D = V̄ q̂⁻¹)' + (scrap ? `, with the output of scrap ('${scrap}') taken out of the market shares (W = (I − p̂)⁻¹ D).` : '.')
           : 'Commodity technology: each commodity has one input structure whichever industry makes it.',
         'Coefficients are fixed: no substitution, no economies of scale, no capacity limits.',
       ],
       findings,
       sections: [matrixSection({ id: `requirements-${kind}`, title: k.title, about: k.about, rows: ax.rows, cols: ax.cols, matrix: R, unit, corner: k.corner, sheet: 'Requirements' }), checksSection(findings)],
     });
-  const about = { 'Make file': loaded.make.file.name, 'Make SHA-256': loaded.make.file.sha256, 'Use file': loaded.use.file.name, 'Use SHA-256': loaded.use.file.sha256, Technology: model.technology, Scrap: f.scrap ?? 'none', Cautions: CAUTION_LINE };
+  const about = { 'Make file': loaded.make.file.name, 'Make SHA-256': loaded.make.file.sha256, 'Use file': loaded.use.file.name, 'Use SHA-256': loaded.use.file.sha256, Technology: model.technology, Scrap: scrap ?? 'none', Cautions: CAUTION_LINE };
   return deliver(
     ctx,
     {
       json: () => ({
         kind,
         technology: model.technology,
-        scrap: f.scrap ?? null,
+        scrap: scrap ?? null,
         make: { file: loaded.make.file.name, sha256: loaded.make.file.sha256, shape: loaded.make.shape, valueField: read.mappings.make.valueField ?? null },
         use: { file: loaded.use.file.name, sha256: loaded.use.file.sha256, shape: loaded.use.shape, valueField: read.mappings.use.valueField ?? null },
         ...matrixJson(m),
@@ -179,7 +197,7 @@ async function action(ctx: CliContext, f: Flags): Promise<number> {
       }),
       text: (colour) => {
         const s = styles(colour);
-        return `${k.title}: ${R.rows} × ${R.cols} (${model.industries.codes.length} industries, ${model.commodities.codes.length} commodities, ${model.technology} technology${f.scrap ? `, scrap ${f.scrap}` : ''})\n${findings.length ? `${findingsText(findings, colour)}\n` : ''}${s.dim('Write the matrix with --out FILE.csv (or .tsv, .xlsx, .json, .html).')}\n`;
+        return `${k.title}: ${R.rows} × ${R.cols} (${model.industries.codes.length} industries, ${model.commodities.codes.length} commodities, ${model.technology} technology${scrap ? `, scrap ${scrap}` : ''})\n${findings.length ? `${findingsText(findings, colour)}\n` : ''}${s.dim('Write the matrix with --out FILE.csv (or .tsv, .xlsx, .json, .html).')}\n`;
       },
       writers: matrixWriters(m, report, about),
     },
