@@ -82,7 +82,7 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
     bar.step('reading the scenarios');
     const sc = await loadScenarios(ctx, f.scenario, t, f.name);
     bar.step('factoring the model');
-    const prep = prepareModels(t, f);
+    const prep = prepareModels(t, f, loaded.file.name);
     bar.step('solving the scenarios');
     const results = impacts(prep.models, sc.resolved, prep.measures);
     const mult = multipliers(prep.models, prep.measures);

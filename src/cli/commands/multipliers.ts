@@ -64,7 +64,7 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
   const plan = planOutputs(f, FORMATS);
   const loaded = await checkedTable(ctx, name, f);
   const t = loaded.table;
-  const prep = prepareModels(t, f);
+  const prep = prepareModels(t, f, loaded.file.name);
   const list = multipliers(prep.models, prep.measures);
   const report = () =>
     buildReport({

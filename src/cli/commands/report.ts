@@ -77,7 +77,7 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
       sc = await loadScenarios(ctx, f.scenario, t, f.name);
     } else if (f.name) throw new UsageError('--name picks scenarios: add --scenario FILE', 'missing-option');
     bar.step('factoring the model');
-    const prep = prepareModels(t, f);
+    const prep = prepareModels(t, f, loaded.file.name);
     bar.step('multipliers and linkages');
     const mult = multipliers(prep.models, prep.measures);
     const link = linkages(t, prep.models.open);
