@@ -8,6 +8,8 @@ import { InputError } from '../../engine/errors';
 import type { HouseholdOptions, Models } from '../../engine/household';
 import { buildModels, householdClosure, CLOSURE_BASES, CLOSURE_BASIS_ABOUT, closureBasis, guessHouseholdColumn, guessLabourIncomeRow } from '../../engine/household';
 import type { ClosureBasis } from '../../engine/household';
+import type { Conventions } from '../../engine/conventions';
+import { conventionLines, conventions } from '../../engine/conventions';
 import { LeontiefModel } from '../../engine/leontief';
 import type { Measure } from '../../engine/measures';
 import { findMeasure, guessJobs, measures } from '../../engine/measures';
@@ -64,6 +66,10 @@ export interface PreparedModels {
   assumptions: string[];
   /** Whether Type II is available, and why not. */
   closure: 'closed' | 'not-found' | 'off';
+  /** The conventions behind the results (also in `assumptions`). */
+  conventions: Conventions;
+  /** Split the indirect effect into rounds (--split rounds). */
+  rounds: boolean;
 }
 
 /** Build the open model, the household closure (given, guessed or off) and the measures. */
@@ -131,7 +137,18 @@ export function prepareModels(t: Table, f: ModelFlags, file?: string): PreparedM
     chosen = codes.map((c) => findMeasure(all, c));
   }
   settings.push(setting('measures', 'Measures', chosen.map((m) => m.code).join(', '), f.measure ? 'given' : 'default'));
-  return { models, measures: chosen, settings, assumptions: modelAssumptions(t, models.closure, { typeII: state }), closure: state };
+  const conv = conventions(models, chosen, { typeII: state });
+  const rounds = splitRounds(f.split);
+  if (rounds) settings.push(setting('split', 'Indirect effect split', 'rounds', 'given', 'First round (c′A) and later rounds (industrial support)'));
+  const assumptions = [...modelAssumptions(t, models.closure, { typeII: state }), ...conventionLines(conv, { closure: false, rounds })];
+  return { models, measures: chosen, settings, assumptions, closure: state, conventions: conv, rounds };
+}
+
+/** --split: only `rounds` is known. */
+export function splitRounds(v: string | undefined): boolean {
+  if (v === undefined) return false;
+  if (v.trim() !== 'rounds') throw new UsageError(`--split must be 'rounds'; got '${v}'`, 'bad-split', 'Give --split rounds to show the first round and the later rounds of the indirect effect');
+  return true;
 }
 
 /** The closure basis and its figures from the flags, checked (a bad number is a usage error). */

@@ -37,6 +37,7 @@ import type { Linkages } from '../../engine/linkages';
 import { KEY_SECTOR_GROUPS, LINKAGES_ABOUT } from '../../engine/linkages';
 import type { TornadoData } from '../../engine/tornado';
 import type { HouseholdClosure } from '../../engine/household';
+import { closureLine, conventions } from '../../engine/conventions';
 import type { PriceResult } from '../../engine/price';
 import { PRICE_ABOUT } from '../../engine/price';
 import type { Extraction, ExtractionRanking } from '../../engine/extraction';
@@ -290,12 +291,11 @@ export function modelAssumptions(t: Table, closure?: HouseholdClosure, options: 
   if (t.meta.outputAssumed) out.push('The table gives coefficients without outputs: every output is taken as 1, so totals are per unit, not money.');
   if (closure) {
     out.push(
-      `Type II (induced) effects close the model for households: labour income is the value-added row${closure.incomeRows.length > 1 ? 's' : ''} ${closure.incomeRows.map((c) => `'${c}'`).join(', ')} and household spending follows the final-demand column '${closure.consumptionColumn}'; households spend ${closure.spendingRate.toPrecision(4)} in the economy per unit of labour income.`,
+      `Type II (induced) effects close the model for households: labour income is the value-added row${closure.incomeRows.length > 1 ? 's' : ''} ${closure.incomeRows.map((c) => `'${c}'`).join(', ')} and household spending follows the final-demand column '${closure.consumptionColumn}'.`,
+      closureLine(conventions({ table: t, closure }).closure),
     );
-  } else if (options.typeII === 'not-found') {
-    out.push('No household closure: no household final-demand column and labour-income row could be identified, so there are no induced effects and no Type II multipliers. Name them to close the model.');
   } else {
-    out.push('No household closure: there are no induced effects and no Type II multipliers.');
+    out.push(closureLine(conventions({ table: t }, [], options.typeII === 'not-found' ? { typeII: 'not-found' } : {}).closure));
   }
   out.push('Demand changes enter the model at their local share: only the part bought from producers inside the economy sets off the supply chain.');
   return out;
@@ -484,26 +484,34 @@ export function multipliersSection(list: readonly Multipliers[], options: { char
       SECTOR,
       numberColumn('direct', 'Direct', u, 'multiplier'),
       numberColumn('indirect', 'Indirect', u, 'multiplier'),
-      numberColumn('simple', 'Simple (direct + indirect)', u, 'multiplier'),
     ];
+    const rounds = m.firstRound !== undefined && m.laterRounds !== undefined;
+    if (rounds) columns.push(numberColumn('firstRound', 'First round (c′A)', u, 'multiplier'), numberColumn('laterRounds', 'Later rounds (industrial support)', u, 'multiplier'));
+    columns.push(numberColumn('simple', 'Simple (direct + indirect)', u, 'multiplier'));
     if (closed) columns.push(numberColumn('induced', 'Induced', u, 'multiplier'), numberColumn('total', 'Total (with induced)', u, 'multiplier'));
     columns.push(numberColumn('typeI', 'Type I', 'ratio', 'ratio'));
     if (closed) columns.push(numberColumn('typeII', 'Type II', 'ratio', 'ratio'));
     const rows: Cell[][] = m.sectors.codes.map((c, j) => {
-      const r: Cell[] = [c, m.sectors.labels[j]!, num(m.direct[j]!), num(m.indirect[j]!), num(m.simple[j]!)];
+      const r: Cell[] = [c, m.sectors.labels[j]!, num(m.direct[j]!), num(m.indirect[j]!)];
+      if (rounds) r.push(num(m.firstRound![j]!), num(m.laterRounds![j]!));
+      r.push(num(m.simple[j]!));
       if (closed) r.push(num(m.induced![j]!), num(m.total![j]!));
       r.push(num(m.typeI[j]!));
       if (closed) r.push(num(m.typeII![j]!));
       return r;
     });
     const notes: string[] = [];
-    const zero = m.sectors.codes.filter((_, j) => !Number.isFinite(m.typeI[j]!));
+    const none = m.sectors.codes.filter((_, j) => !Number.isFinite(m.simple[j]!));
+    if (none.length) notes.push(`Every figure is blank for ${none.length} sector${none.length > 1 ? 's' : ''} with no output (${none.slice(0, 12).join(', ')}${none.length > 12 ? ', …' : ''}): without output there are no coefficients to multiply.`);
+    const zero = m.sectors.codes.filter((_, j) => !Number.isFinite(m.typeI[j]!) && Number.isFinite(m.simple[j]!));
     if (zero.length) {
       notes.push(
         `Type I${closed ? ' and Type II are' : ' is'} blank for ${zero.length} sector${zero.length > 1 ? 's' : ''} with no direct ${m.measure.label.toLowerCase()} (${zero.slice(0, 12).join(', ')}${zero.length > 12 ? ', …' : ''}): a ratio to a zero direct effect is not defined.`,
       );
     }
     if (!closed) notes.push('No household closure: induced, total and Type II multipliers are not computed.');
+    notes.push('Total sums the n sectors of the closed model; the household row is not counted. Induced = total − simple.');
+    if (rounds) notes.push('First round = c′A (for output, the column sums of A); later rounds (industrial support) = indirect − first round.');
     return {
       id: `multipliers-${m.measure.code}`,
       title: `${m.measure.label} multipliers`,
