@@ -37,7 +37,7 @@ import type { Linkages } from '../../engine/linkages';
 import { KEY_SECTOR_GROUPS, LINKAGES_ABOUT } from '../../engine/linkages';
 import type { TornadoData } from '../../engine/tornado';
 import type { HouseholdClosure } from '../../engine/household';
-import { closureLine, conventions } from '../../engine/conventions';
+import { closureLine, conventions, DEFINITIONS } from '../../engine/conventions';
 import type { PriceResult } from '../../engine/price';
 import { PRICE_ABOUT } from '../../engine/price';
 import type { Extraction, ExtractionRanking } from '../../engine/extraction';
@@ -254,6 +254,9 @@ function finite(v: ArrayLike<number>): number[] {
   return Array.from(v, (x) => (Number.isFinite(x) && x !== 0 ? x : 0));
 }
 
+/** What the rounds columns mean. */
+const ROUNDS_NOTE = 'First round = c ⊙ (A Δd), what the direct output buys from its suppliers; later rounds (industrial support) = indirect − first round.';
+
 /** The unit of number columns whose rows each state their own unit (in a Unit column). */
 const ROW_UNIT = 'unit of the row';
 
@@ -365,6 +368,7 @@ export function scenarioSection(scenario: ResolvedScenario, impact: Impact, opti
   const id = `scenario-${k}`;
   const sectors = impact.sectors;
   const money = impact.moneyUnit;
+  const rounds = impact.measures.some((m) => m.firstRound !== undefined);
   const paragraphs: string[] = [];
   if (scenario.description) paragraphs.push(scenario.description);
   paragraphs.push(
@@ -396,20 +400,34 @@ export function scenarioSection(scenario: ResolvedScenario, impact: Impact, opti
       { key: 'unit', label: 'Unit', type: 'text' },
       { key: 'direct', label: 'Direct', type: 'number', unit: ROW_UNIT, style: 'amount' },
       { key: 'indirect', label: 'Indirect', type: 'number', unit: ROW_UNIT, style: 'amount' },
+      ...(rounds
+        ? [
+            { key: 'firstRound', label: 'First round (A Δd)', type: 'number' as const, unit: ROW_UNIT, style: 'amount' as const },
+            { key: 'laterRounds', label: 'Later rounds (industrial support)', type: 'number' as const, unit: ROW_UNIT, style: 'amount' as const },
+          ]
+        : []),
       { key: 'induced', label: 'Induced', type: 'number', unit: ROW_UNIT, style: 'amount' },
       { key: 'total', label: 'Total', type: 'number', unit: ROW_UNIT, style: 'amount' },
     ],
-    rows: impact.measures.map((m) => [m.measure.label, m.unit, num(m.totals.direct), num(m.totals.indirect), num(m.totals.induced), num(m.totals.total)]),
-    notes: ['Each row is in the unit given in its Unit column.'],
+    rows: impact.measures.map((m) => [m.measure.label, m.unit, num(m.totals.direct), num(m.totals.indirect), ...(rounds ? [num(m.totals.firstRound), num(m.totals.laterRounds)] : []), num(m.totals.induced), num(m.totals.total)]),
+    notes: ['Each row is in the unit given in its Unit column.', ...(rounds ? [ROUNDS_NOTE] : [])],
   };
   const bySector: ReportTable[] = impact.measures.map((m) => ({
     id: `${id}-${m.measure.code}`,
     title: `${m.measure.label} by sector: ${scenario.name}`,
     about: `Where the effect on ${m.measure.label.toLowerCase()} happens, by sector, in ${m.unit}.`,
-    columns: [CODE, SECTOR, numberColumn('direct', 'Direct', m.unit, 'amount'), numberColumn('indirect', 'Indirect', m.unit, 'amount'), numberColumn('induced', 'Induced', m.unit, 'amount'), numberColumn('total', 'Total', m.unit, 'amount')],
-    rows: sectors.codes.map((c, i) => [c, sectors.labels[i]!, num(m.direct[i]!), num(m.indirect[i]!), num(m.induced[i]!), num(m.total[i]!)]),
-    totals: ['Total', null, num(m.totals.direct), num(m.totals.indirect), num(m.totals.induced), num(m.totals.total)],
-    notes: [],
+    columns: [
+      CODE,
+      SECTOR,
+      numberColumn('direct', 'Direct', m.unit, 'amount'),
+      numberColumn('indirect', 'Indirect', m.unit, 'amount'),
+      ...(rounds ? [numberColumn('firstRound', 'First round (A Δd)', m.unit, 'amount'), numberColumn('laterRounds', 'Later rounds (industrial support)', m.unit, 'amount')] : []),
+      numberColumn('induced', 'Induced', m.unit, 'amount'),
+      numberColumn('total', 'Total', m.unit, 'amount'),
+    ],
+    rows: sectors.codes.map((c, i) => [c, sectors.labels[i]!, num(m.direct[i]!), num(m.indirect[i]!), ...(rounds ? [num(m.firstRound?.[i]), num(m.laterRounds?.[i])] : []), num(m.induced[i]!), num(m.total[i]!)]),
+    totals: ['Total', null, num(m.totals.direct), num(m.totals.indirect), ...(rounds ? [num(m.totals.firstRound), num(m.totals.laterRounds)] : []), num(m.totals.induced), num(m.totals.total)],
+    notes: rounds ? [ROUNDS_NOTE] : [],
   }));
   const chartCodes = options.chart ?? impact.measures.filter((m) => m.measure.kind === 'output' || m.measure.kind === 'jobs').map((m) => m.measure.code);
   const charts: ChartSpec[] = impact.measures
@@ -552,7 +570,11 @@ export function linkagesSection(l: Linkages): Section {
     r.push(l.group[j]!);
     return r;
   });
-  const groups = (Object.keys(KEY_SECTOR_GROUPS) as (keyof typeof KEY_SECTOR_GROUPS)[]).map((g) => `${g}: ${KEY_SECTOR_GROUPS[g]} (${l.groups[g].length ? l.groups[g].join(', ') : 'none'}).`);
+  const groups = (Object.keys(KEY_SECTOR_GROUPS) as (keyof typeof KEY_SECTOR_GROUPS)[])
+    .filter((g) => g !== 'no-output' || l.groups[g].length)
+    .map((g) => `${g}: ${KEY_SECTOR_GROUPS[g]} (${l.groups[g].length ? l.groups[g].join(', ') : 'none'}).`);
+  groups.push(DEFINITIONS.linkageBases, DEFINITIONS.normalisation, DEFINITIONS.keySectorRule, DEFINITIONS.variation);
+  const live = l.group.flatMap((g, j) => (g === 'no-output' ? [] : [j]));
   return section({
     id: 'linkages',
     kind: 'linkages',
@@ -561,7 +583,7 @@ export function linkagesSection(l: Linkages): Section {
     sheet: 'Linkages',
     paragraphs: groups,
     tables: [{ id: 'linkages', title: 'Linkages by sector', about: LINKAGES_ABOUT, columns, rows, notes: l.findings.map((f) => f.message) }],
-    charts: [{ kind: 'linkage-quadrant', id: 'linkages-chart', title: 'Key sectors: backward and forward linkage', codes: [...l.sectors.codes], labels: [...l.sectors.labels], backward: finite(l.power), forward: finite(l.sensitivity) }],
+    charts: [{ kind: 'linkage-quadrant', id: 'linkages-chart', title: 'Key sectors: backward and forward linkage', codes: live.map((j) => l.sectors.codes[j]!), labels: live.map((j) => l.sectors.labels[j]!), backward: finite(live.map((j) => l.power[j]!)), forward: finite(live.map((j) => l.sensitivity[j]!)) }],
   });
 }
 

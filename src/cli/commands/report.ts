@@ -79,10 +79,10 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
     bar.step('factoring the model');
     const prep = prepareModels(t, f, loaded.file.name);
     bar.step('multipliers and linkages');
-    const mult = multipliers(prep.models, prep.measures);
+    const mult = multipliers(prep.models, prep.measures, { rounds: prep.rounds });
     const link = linkages(t, prep.models.open);
     bar.step('scenarios');
-    const results = sc ? impacts(prep.models, sc.resolved, prep.measures) : [];
+    const results = sc ? impacts(prep.models, sc.resolved, prep.measures, { rounds: prep.rounds }) : [];
     const settings = [...prep.settings];
     const sections: Section[] = [];
     if (sc) {
