@@ -34,7 +34,7 @@
  *
  * Example (Miller & Blair (2009), ch. 2, from memory): A = [.15 .25; .20 .05], h꜀ = [.05; .40],
  * hᵣ′ = [.30 .25], h꜀꜀ = .05 give the closed inverse [1.3651 .4253 .2509; .5273 1.3481 .5954;
- * .5698 .4890 1.2885] and Type II output multipliers 1.8924 and 1.7734.
+ * .5698 .4890 1.2885] and Type II output multipliers 1.8924 and 1.7733.
  */
 import { InputError } from './errors';
 import type { Finding } from './findings';
@@ -301,7 +301,7 @@ export class ClosedModel {
         'household-not-productive',
         f?.message ?? `the model closed for households is not productive (1 − hᵣ′L h꜀ = ${this.s.toPrecision(4)} ≤ 0)`,
         { rowLabel: closure.incomeRows[0]!, columnLabel: closure.consumptionColumn },
-        REMEDY,
+        f ? undefined : REMEDY,
       );
     }
   }
