@@ -198,9 +198,19 @@ export interface ReportFinding {
   where?: string;
 }
 
+/** Set when any error finding stands: the table failed its checks, and every writer says so first. */
+export interface ReportFailure {
+  /** One sentence: the table failed its checks, so its results cannot be trusted. */
+  message: string;
+  /** The error findings. */
+  findings: ReportFinding[];
+}
+
 export interface Report {
   format: typeof REPORT_FORMAT;
   version: typeof REPORT_VERSION;
+  /** Present when any error finding stands (first in the JSON, first on every report's first page). */
+  failed?: ReportFailure;
   title: string;
   subtitle?: string;
   /** ISO 8601 date and time the report was made. */
@@ -898,7 +908,20 @@ export function buildReport(p: ReportParts): Report {
     notes,
   };
   if (p.subtitle !== undefined) r.subtitle = p.subtitle;
-  return r;
+  const errors = r.findings.filter((f) => f.severity === 'error');
+  if (!errors.length) return r;
+  const failed: ReportFailure = {
+    message: `THE TABLE FAILED ${errors.length} CHECK${errors.length > 1 ? 'S' : ''}: results computed from it cannot be trusted. Fix the table (or the options) and make the report again before using any number in it.`,
+    findings: errors.map((f) => ({ ...f })),
+  };
+  const { format, version, ...rest } = r;
+  return { format, version, failed, ...rest };
+}
+
+/** The failure lines of a report, one per error finding after the headline (empty when it did not fail). */
+export function failureLines(r: Pick<Report, 'failed'>): string[] {
+  if (!r.failed) return [];
+  return [r.failed.message, ...r.failed.findings.map((f) => `Error ${f.code}: ${f.message}${f.where ? ` (${f.where})` : ''}`)];
 }
 
 /** Every table of a report, in order (for writers and tests). */
