@@ -167,7 +167,13 @@ function householdFrom(v: unknown, notes: string[]): HouseholdSetting | null {
   const hi = v.householdIncome;
   if (hi !== null && hi !== undefined && !(isNum(hi) && hi > 0)) notes.push(`household.householdIncome: ${JSON.stringify(hi)} is not a positive amount; left out`);
   const basis = v.basis === 'consumption-total' || v.basis === 'labour-income' ? v.basis : null;
-  return { use: v.use, income: [...v.income], consumption: v.consumption, propensity: isNum(p) && p >= 0 && p <= 1 ? p : null, householdIncome: isNum(hi) && hi > 0 ? hi : null, basis };
+  const out: HouseholdSetting = { use: v.use, income: [...v.income], consumption: v.consumption, propensity: isNum(p) && p >= 0 && p <= 1 ? p : null };
+  // The two later fields only when set, so that older snapshots restore unchanged.
+  if (isNum(hi) && hi > 0) out.householdIncome = hi;
+  else if (hi === null) out.householdIncome = null;
+  if (basis) out.basis = basis;
+  else if (v.basis === null) out.basis = null;
+  return out;
 }
 
 /**
