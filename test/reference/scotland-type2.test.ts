@@ -163,6 +163,10 @@ describe.skipIf(!have)(`Type II against the agency's published multipliers (sour
       checked++;
     }
     expect(checked).toBeGreaterThanOrEqual(97);
+    if (process.env.RIPPLEWISE_SHOW) {
+      const worst = (f: (j: number) => number) => Math.max(...[...Array(N).keys()].filter((j) => table.x[j] !== 0).map(f).filter(Number.isFinite));
+      console.log(`largest gaps: output ${worst((j) => Math.abs(out!.total![j]! - published[j]!.output)).toExponential(2)}, income effect ${worst((j) => Math.abs(inc!.total![j]! - published[j]!.incomeEffect)).toExponential(2)}, GVA effect ${worst((j) => Math.abs(gva!.total![j]! - published[j]!.gvaEffect)).toExponential(2)}, income multiplier ${worst((j) => Math.abs(inc!.typeII![j]! - published[j]!.incomeMultiplier)).toExponential(2)}, GVA multiplier ${worst((j) => Math.abs(gva!.typeII![j]! - published[j]!.gvaMultiplier)).toExponential(2)}`);
+    }
   });
 
   it('the default basis (labour income) gives other figures, and the same ones with the equivalent propensity', () => {
