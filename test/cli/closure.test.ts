@@ -38,6 +38,9 @@ describe('closure options on the command line', () => {
     expect(j.settings.find((s: { key: string }) => s.key === 'spendingShare').value).toBeCloseTo(140 / 130, 12);
     expect(j.findings.map((f: { code: string }) => f.code)).toContain('household-share-high');
     expect(j.conventions.definitions.total).toMatch(/household row .* not counted/);
+    const text = await run(['multipliers', file]);
+    expect(text.stdout).toMatch(/warning: households would spend 1\.077/);
+    expect(text.stdout).toMatch(/Closure basis: labour-income/);
   });
   it('the bases give the same Type II when they imply the same share', async () => {
     const a = JSON.parse((await run(['multipliers', file, '--household-income', '280', '--json'])).stdout);

@@ -151,6 +151,7 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
             if (!im.closed) out.push(s.dim('  no household closure: induced effects are zero'));
           });
           out.push(s.dim(`  ${closureLine(prep.conventions.closure)}`));
+          for (const w of prep.models.closure?.findings ?? []) if (w.severity !== 'note') out.push(s.yellow(`  ${w.severity}: ${w.message}`));
           out.push(s.bold('Conventions'), ...conventionLines(prep.conventions, { closure: false, rounds: prep.rounds }).map((l) => s.dim(`  ${l}`)));
           out.push(s.dim(CAUTION_LINE), '');
           return out.join('\n');

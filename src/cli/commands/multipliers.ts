@@ -109,6 +109,7 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
           out.push(textTable(cols, rows));
           for (const n of m.findings) out.push(s.dim(`  note: ${n.message.replace(/ \(NaN\)$/, '')}`));
         }
+        for (const w of prep.models.closure?.findings ?? []) if (w.severity !== 'note') out.push(s.yellow(`${w.severity}: ${w.message}`));
         out.push(s.bold('Conventions'), ...conventionLines(prep.conventions, { closure: false, rounds: prep.rounds }).map((l) => s.dim(`  ${l}`)));
         out.push(s.dim(CAUTION_LINE), '');
         return out.join('\n');
