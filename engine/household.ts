@@ -56,7 +56,7 @@ export const CLOSURE_BASES: readonly ClosureBasis[] = ['labour-income', 'consump
 /** One line per closure basis: what household spending is divided by. */
 export const CLOSURE_BASIS_ABOUT: Readonly<Record<ClosureBasis, string>> = {
   'labour-income': 'household spending ÷ total labour income in the table (the chosen income rows)',
-  'consumption-total': "household spending ÷ the consumption column's own total (households spend all their income on the table's products)",
+  'consumption-total': "household spending ÷ the consumption column's own total over the table's sectors (households spend all their income on the table's products; where a published column total also holds imports and taxes, give that total as the household income instead)",
   'household-income': 'household spending ÷ a household income given by the user (not in the table)',
   propensity: "a given share of income spent in the economy × the consumption column's shares of its own total",
 };
