@@ -12,6 +12,10 @@
  *                                       with L̄ the n × n block of the closed model's inverse
  *   total    = direct + indirect + induced = c ⊙ L̄ Δd  (c ⊙ L Δd without a closure)
  *
+ * With `rounds: true` the indirect part is split into the first round, c ⊙ (A Δd) (what the
+ * direct output buys from its suppliers), and the later rounds (industrial support),
+ * indirect − first round.
+ *
  * Each part is reported by sector (where it happens) and in total. Without a household
  * closure `induced` is zero and `closed` is false.
  *
@@ -42,8 +46,12 @@ export interface MeasureImpact {
   indirect: Float64Array;
   induced: Float64Array;
   total: Float64Array;
+  /** c ⊙ (A Δd): the first round of the indirect part (with `rounds: true`). */
+  firstRound?: Float64Array;
+  /** indirect − first round: the later rounds (industrial support; with `rounds: true`). */
+  laterRounds?: Float64Array;
   /** Sums over sectors. */
-  totals: { direct: number; indirect: number; induced: number; total: number };
+  totals: { direct: number; indirect: number; induced: number; total: number; firstRound?: number; laterRounds?: number };
 }
 
 export interface Impact {
@@ -75,7 +83,12 @@ function sum(v: Float64Array): number {
   return s;
 }
 
-function build(models: Models, name: string, demand: Float64Array, x0: Float64Array, measures: readonly Measure[]): Impact {
+export interface ImpactOptions {
+  /** Split the indirect part into the first round and the later rounds. */
+  rounds?: boolean;
+}
+
+function build(models: Models, name: string, demand: Float64Array, x0: Float64Array, measures: readonly Measure[], options: ImpactOptions = {}): Impact {
   const { table, open, closed } = models;
   const n = open.n;
   let x = x0;
@@ -84,6 +97,16 @@ function build(models: Models, name: string, demand: Float64Array, x0: Float64Ar
     const r = closed.extend(demand, x0);
     x = r.x;
     income = r.income;
+  }
+  let ad: Float64Array | undefined;
+  if (options.rounds) {
+    ad = new Float64Array(n);
+    const A = open.A.data;
+    for (let i = 0; i < n; i++) {
+      let v = 0;
+      for (let j = 0; j < n; j++) v += A[i * n + j]! * demand[j]!;
+      ad[i] = v;
+    }
   }
   const out: MeasureImpact[] = measures.map((m) => {
     const c = m.coefficients;
@@ -97,7 +120,7 @@ function build(models: Models, name: string, demand: Float64Array, x0: Float64Ar
       induced[i] = closed ? c[i]! * (x[i]! - x0[i]!) : 0;
       total[i] = c[i]! * x[i]!;
     }
-    return {
+    const mi: MeasureImpact = {
       measure: measureInfo(m),
       unit: m.unit,
       direct,
@@ -106,6 +129,19 @@ function build(models: Models, name: string, demand: Float64Array, x0: Float64Ar
       total,
       totals: { direct: sum(direct), indirect: sum(indirect), induced: sum(induced), total: sum(total) },
     };
+    if (ad) {
+      const first = new Float64Array(n);
+      const later = new Float64Array(n);
+      for (let i = 0; i < n; i++) {
+        first[i] = c[i]! * ad[i]!;
+        later[i] = indirect[i]! - first[i]!;
+      }
+      mi.firstRound = first;
+      mi.laterRounds = later;
+      mi.totals.firstRound = sum(first);
+      mi.totals.laterRounds = sum(later);
+    }
+    return mi;
   });
   const residual = open.residual(x0, demand);
   const findings: Finding[] = [];
@@ -143,15 +179,15 @@ function resolved(models: Models, s: Scenario | ResolvedScenario): ResolvedScena
 }
 
 /** The impact of one scenario (validated against the table first) on every measure. */
-export function impact(models: Models, scenario: Scenario | ResolvedScenario, measures: readonly Measure[]): Impact {
+export function impact(models: Models, scenario: Scenario | ResolvedScenario, measures: readonly Measure[], options: ImpactOptions = {}): Impact {
   for (const m of measures) checkMeasure(m, models.open.n);
   const r = resolved(models, scenario);
   const x0 = models.open.solve(r.demand);
-  return build(models, r.name, r.demand, x0, measures);
+  return build(models, r.name, r.demand, x0, measures, options);
 }
 
 /** Impacts of many scenarios with one multi-column solve of the open model. */
-export function impacts(models: Models, scenarios: readonly (Scenario | ResolvedScenario)[], measures: readonly Measure[]): Impact[] {
+export function impacts(models: Models, scenarios: readonly (Scenario | ResolvedScenario)[], measures: readonly Measure[], options: ImpactOptions = {}): Impact[] {
   for (const m of measures) checkMeasure(m, models.open.n);
   const rs = scenarios.map((s) => resolved(models, s));
   const n = models.open.n;
@@ -165,6 +201,6 @@ export function impacts(models: Models, scenarios: readonly (Scenario | Resolved
   return rs.map((s, j) => {
     const x0 = new Float64Array(n);
     for (let i = 0; i < n; i++) x0[i] = X.data[i * r + j]!;
-    return build(models, s.name, s.demand, x0, measures);
+    return build(models, s.name, s.demand, x0, measures, options);
   });
 }

@@ -45,8 +45,13 @@ export {
   guessHouseholdColumn,
   guessLabourIncomeRow,
   buildModels,
+  CLOSURE_BASES,
+  CLOSURE_BASIS_ABOUT,
+  closureBasis,
+  PLAUSIBLE_SHARE,
+  inducedPlausibility,
 } from './household';
-export type { HouseholdOptions, HouseholdClosure, Models } from './household';
+export type { HouseholdOptions, HouseholdClosure, Models, ClosureBasis } from './household';
 export { MULTIPLIERS_ABOUT, REQUIREMENTS_MULTIPLIERS_ABOUT, multipliers, multipliersOf, requirementsMultipliers } from './multipliers';
 export type { Multipliers, RequirementsMultipliers } from './multipliers';
 export { SCENARIO_ABOUT, checkScenario, resolveScenario } from './scenario';

@@ -12,12 +12,17 @@
  *                                of G (sd with n − 1); a low value means the sector's pull is
  *                                spread over many sectors
  *
- * The indices average 1. Key-sector groups (common practice): `key` (both indices above 1),
- * `backward` (only the backward index above 1), `forward` (only the forward index above 1),
- * `weak` (neither).
+ * The indices average 1 over the sectors with output. Key-sector groups (common practice): `key`
+ * (both indices above 1), `backward` (only the backward index above 1), `forward` (only the
+ * forward index above 1), `weak` (neither).
  *
- * G i is computed as x̂⁻¹ L x with one solve of the open model (G = x̂⁻¹ L x̂ when every output
- * is positive); when some output is zero or negative, a Ghosh model is factored instead. The
+ * Sectors with no output (xⱼ = 0) are left out: they are not counted in the means that
+ * normalise the indices nor in the coefficients of variation, their own figures are NaN
+ * (blank), and their group is `no-output`. So adding or removing such a sector leaves every
+ * other sector's figures unchanged.
+ *
+ * G i is computed as x̂⁻¹ L x with one solve of the open model (G = x̂⁻¹ L x̂ where outputs
+ * are positive); when some output is negative, a Ghosh model is factored instead. The
  * coefficients of variation need every entry of L, which is formed for them (skip them with
  * `variation: false`).
  */
@@ -32,7 +37,7 @@ import type { Axis, Table } from './table';
 export const LINKAGES_ABOUT =
   'Linkages: how strongly each sector pulls on its suppliers (backward) and pushes to its buyers (forward), directly and in total; the indices average 1, and a key sector is above 1 in both.';
 
-export type KeySectorGroup = 'key' | 'backward' | 'forward' | 'weak';
+export type KeySectorGroup = 'key' | 'backward' | 'forward' | 'weak' | 'no-output';
 
 /** One line for each key-sector group. */
 export const KEY_SECTOR_GROUPS: Readonly<Record<KeySectorGroup, string>> = {
@@ -40,6 +45,7 @@ export const KEY_SECTOR_GROUPS: Readonly<Record<KeySectorGroup, string>> = {
   backward: 'backward-oriented: above-average pull on suppliers, below-average supply to other sectors',
   forward: 'forward-oriented: above-average supply to other sectors, below-average pull on suppliers',
   weak: 'weakly linked: below-average backward and forward linkages',
+  'no-output': 'no output: left out of the averages, no linkage index',
 };
 
 export interface Linkages {
@@ -72,13 +78,13 @@ export interface Linkages {
   cautions: readonly string[];
 }
 
-function normalised(v: Float64Array): Float64Array {
+/** v ÷ its mean over the sectors `live` (NaN elsewhere). */
+function normalised(v: Float64Array, live: readonly number[]): Float64Array {
   let s = 0;
-  for (let i = 0; i < v.length; i++) s += v[i]!;
-  const mean = s / v.length;
-  const out = new Float64Array(v.length);
-  if (mean === 0) return out;
-  for (let i = 0; i < v.length; i++) out[i] = v[i]! / mean;
+  for (const i of live) s += v[i]!;
+  const mean = s / live.length;
+  const out = new Float64Array(v.length).fill(NaN);
+  for (const i of live) out[i] = mean === 0 ? 0 : v[i]! / mean;
   return out;
 }
 
@@ -90,7 +96,9 @@ export function linkages(t: Table, model: LeontiefModel, options: { variation?: 
   const B = options.ghosh?.B ?? allocationCoefficients(t);
   const directForward = rowSums(B);
   const totalBackward = model.outputMultipliers();
-  const positive = t.x.every((v) => v > 0);
+  const live = [...t.x.keys()].filter((i) => t.x[i] !== 0);
+  const none = [...t.x.keys()].filter((i) => t.x[i] === 0);
+  const positive = t.x.every((v) => v >= 0);
   const findings: Finding[] = [];
   let ghosh = options.ghosh;
   let totalForward: Float64Array;
@@ -102,24 +110,36 @@ export function linkages(t: Table, model: LeontiefModel, options: { variation?: 
     ghosh ??= new GhoshModel(B);
     totalForward = ghosh.rowSums();
   }
-  if (!positive) {
-    const zero = [...t.x.keys()].filter((i) => !(t.x[i]! > 0));
+  for (const a of [directBackward, directForward, totalBackward, totalForward]) for (const i of none) a[i] = NaN;
+  if (none.length) {
     findings.push({
       code: 'zero-output',
-      severity: 'warning',
-      message: `${zero.length} sector${zero.length > 1 ? 's have' : ' has'} no positive output (${zero
+      severity: 'note',
+      message: `${none.length} sector${none.length > 1 ? 's have' : ' has'} no output (${none
         .slice(0, 10)
         .map((i) => `'${t.sectors.codes[i]}'`)
-        .join(', ')}); their coefficients are zero and their linkage indices say nothing about them`,
-      where: { sectors: zero.map((i) => t.sectors.codes[i]!) },
+        .join(', ')}${none.length > 10 ? ', …' : ''}): left out of the averages that normalise the indices and of the coefficients of variation; their linkages are blank`,
+      where: { sectors: none.map((i) => t.sectors.codes[i]!) },
     });
   }
-  const power = normalised(totalBackward);
-  const sensitivity = normalised(totalForward);
+  const negative = [...t.x.keys()].filter((i) => t.x[i]! < 0);
+  if (negative.length) {
+    findings.push({
+      code: 'negative-output',
+      severity: 'warning',
+      message: `${negative.length} sector${negative.length > 1 ? 's have' : ' has'} negative output (${negative
+        .slice(0, 10)
+        .map((i) => `'${t.sectors.codes[i]}'`)
+        .join(', ')}); their linkage indices say nothing about them`,
+      where: { sectors: negative.map((i) => t.sectors.codes[i]!) },
+    });
+  }
+  const power = normalised(totalBackward, live);
+  const sensitivity = normalised(totalForward, live);
   const group: KeySectorGroup[] = [];
-  const groups: Record<KeySectorGroup, string[]> = { key: [], backward: [], forward: [], weak: [] };
+  const groups: Record<KeySectorGroup, string[]> = { key: [], backward: [], forward: [], weak: [], 'no-output': [] };
   for (let j = 0; j < n; j++) {
-    const g: KeySectorGroup = power[j]! > 1 ? (sensitivity[j]! > 1 ? 'key' : 'backward') : sensitivity[j]! > 1 ? 'forward' : 'weak';
+    const g: KeySectorGroup = t.x[j] === 0 ? 'no-output' : power[j]! > 1 ? (sensitivity[j]! > 1 ? 'key' : 'backward') : sensitivity[j]! > 1 ? 'forward' : 'weak';
     group.push(g);
     groups[g].push(t.sectors.codes[j]!);
   }
@@ -128,8 +148,8 @@ export function linkages(t: Table, model: LeontiefModel, options: { variation?: 
     sectors: axisCopy(t.sectors),
     directBackward,
     directForward,
-    directBackwardIndex: normalised(directBackward),
-    directForwardIndex: normalised(directForward),
+    directBackwardIndex: normalised(directBackward, live),
+    directForwardIndex: normalised(directForward, live),
     totalBackward,
     totalForward,
     power,
@@ -141,35 +161,35 @@ export function linkages(t: Table, model: LeontiefModel, options: { variation?: 
   };
   if (variation) {
     const L = model.inverse();
-    const vb = new Float64Array(n);
-    const vf = new Float64Array(n);
-    const dof = Math.max(n - 1, 1);
-    // Backward: columns of L.
-    const mean = new Float64Array(n);
-    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) mean[j] += L.data[i * n + j]!;
-    for (let j = 0; j < n; j++) mean[j] /= n;
-    const ss = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
-      for (let j = 0; j < n; j++) {
-        const d = L.data[i * n + j]! - mean[j]!;
-        ss[j] += d * d;
+    const vb = new Float64Array(n).fill(NaN);
+    const vf = new Float64Array(n).fill(NaN);
+    const m = live.length;
+    const dof = Math.max(m - 1, 1);
+    // Backward: columns of L over the rows of sectors with output.
+    for (const j of live) {
+      let s = 0;
+      for (const i of live) s += L.data[i * n + j]!;
+      const mean = s / m;
+      let ss = 0;
+      for (const i of live) {
+        const d = L.data[i * n + j]! - mean;
+        ss += d * d;
       }
+      vb[j] = mean !== 0 ? Math.sqrt(ss / dof) / mean : 0;
     }
-    for (let j = 0; j < n; j++) vb[j] = mean[j]! !== 0 ? Math.sqrt(ss[j]! / dof) / mean[j]! : 0;
-    // Forward: rows of G, gᵢⱼ = lᵢⱼ xⱼ / xᵢ (or G itself).
-    // With positive outputs G = x̂⁻¹ L x̂ from L at hand; otherwise G itself (a second inverse).
+    // Forward: rows of G, gᵢⱼ = lᵢⱼ xⱼ / xᵢ with nonnegative outputs (from L at hand), or G itself (a second inverse).
     const G = positive ? undefined : ghosh!.inverse();
     const rowG = new Float64Array(n);
-    for (let i = 0; i < n; i++) {
+    for (const i of live) {
       let s = 0;
-      for (let j = 0; j < n; j++) {
+      for (const j of live) {
         rowG[j] = G ? G.data[i * n + j]! : (L.data[i * n + j]! * t.x[j]!) / t.x[i]!;
         s += rowG[j]!;
       }
-      const m = s / n;
+      const mean = s / m;
       let dev = 0;
-      for (let j = 0; j < n; j++) dev += (rowG[j]! - m) * (rowG[j]! - m);
-      vf[i] = m !== 0 ? Math.sqrt(dev / dof) / m : 0;
+      for (const j of live) dev += (rowG[j]! - mean) * (rowG[j]! - mean);
+      vf[i] = mean !== 0 ? Math.sqrt(dev / dof) / mean : 0;
     }
     out.variationBackward = vb;
     out.variationForward = vf;

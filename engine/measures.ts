@@ -282,7 +282,17 @@ export function checkMeasure(m: Measure, n: number): void {
  * household closure).
  */
 export function guessLabourIncomeRowIn(t: Table): string | undefined {
-  return bestMatch(t.valueAdded, LABOUR_INCOME_WORDS, []);
+  return onlyClassed(t.valueAdded, 'compensation') ?? bestMatch(t.valueAdded, LABOUR_INCOME_WORDS, []);
+}
+
+/**
+ * The one entry of an axis carrying a class, whatever file it came from (the readers class rows
+ * and columns from their labels, codes or a mapping); undefined when none or several do. The
+ * classes are the first rule of the household guesses, the words the second.
+ */
+export function onlyClassed<C extends string>(axis: ClassedAxis<C>, c: C): string | undefined {
+  const hits = axis.codes.filter((_, i) => axis.classes?.[i] === c);
+  return hits.length === 1 ? hits[0] : undefined;
 }
 
 /** Word patterns, strongest first; each tier is tried in turn and a tier with one match wins. */

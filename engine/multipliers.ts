@@ -11,7 +11,16 @@
  * L̄ is the n × n block of the closed model's inverse (see household.ts); the household row is
  * not counted in any total. For the output measure c = 1, so direct = 1 and the simple
  * multipliers are the column sums of L. Type I and Type II are not defined where the direct
- * coefficient is 0: there they are NaN and a note names the sectors.
+ * coefficient is 0: there they are NaN and a note names the sectors. A sector with no output
+ * (xⱼ = 0) has no coefficients to multiply: all its multipliers are NaN (blank) and a note
+ * (`no-output`) names it.
+ *
+ * The rounds of the indirect effect (`rounds: true`; paragraphs 20-25 of the Australian Bureau
+ * of Statistics' information paper 5246.0 name them):
+ *
+ *   first round   = c′A                the purchases the first unit of demand sets off, weighted
+ *                                       by the measure (for output, the column sums of A)
+ *   later rounds  = indirect − c′A     industrial support: every round after the first
  */
 import { InputError } from './errors';
 import type { Finding } from './findings';
@@ -40,6 +49,10 @@ export interface Multipliers {
   induced?: Float64Array;
   /** Direct + indirect + induced; absent without a household closure. */
   total?: Float64Array;
+  /** c′A: the first round of the indirect effect (with `rounds: true`). */
+  firstRound?: Float64Array;
+  /** indirect − c′A: the later rounds (industrial support; with `rounds: true`). */
+  laterRounds?: Float64Array;
   /** simple ÷ direct (NaN where direct is 0, named in `findings`). */
   typeI: Float64Array;
   /** total ÷ direct; absent without a household closure. */
@@ -48,8 +61,22 @@ export interface Multipliers {
   cautions: readonly string[];
 }
 
+export interface MultiplierOptions {
+  /** Split the indirect effect into the first round and the later rounds. */
+  rounds?: boolean;
+  /** Total output by sector: sectors with none get blank multipliers and a note. */
+  output?: ArrayLike<number>;
+}
+
+/** The indices of the sectors with no output (xⱼ = 0). */
+export function noOutputSectors(x: ArrayLike<number> | undefined): number[] {
+  const out: number[] = [];
+  if (x) for (let j = 0; j < x.length; j++) if (x[j] === 0) out.push(j);
+  return out;
+}
+
 /** Multipliers of one measure from the open model and, when given, the closed one. */
-export function multipliersOf(sectors: Axis, open: LeontiefModel, measure: Measure, closed?: ClosedModel): Multipliers {
+export function multipliersOf(sectors: Axis, open: LeontiefModel, measure: Measure, closed?: ClosedModel, options: MultiplierOptions = {}): Multipliers {
   const n = open.n;
   if (sectors.codes.length !== n) throw new InputError('bad-size', `there are ${sectors.codes.length} sector codes for a model of ${n} sectors`);
   checkMeasure(measure, n);
@@ -87,7 +114,36 @@ export function multipliersOf(sectors: Axis, open: LeontiefModel, measure: Measu
     out.induced = induced;
     out.typeII = typeII;
   }
-  const zero = [...direct.keys()].filter((j) => direct[j] === 0);
+  if (options.rounds) {
+    const A = open.A;
+    const first = new Float64Array(n);
+    for (let i = 0; i < n; i++) {
+      const ci = c[i]!;
+      if (ci === 0) continue;
+      const o = i * n;
+      for (let j = 0; j < n; j++) first[j] += ci * A.data[o + j]!;
+    }
+    const later = new Float64Array(n);
+    for (let j = 0; j < n; j++) later[j] = indirect[j]! - first[j]!;
+    out.firstRound = first;
+    out.laterRounds = later;
+  }
+  const none = noOutputSectors(options.output);
+  if (none.length) {
+    for (const arr of [out.direct, out.indirect, out.simple, out.typeI, out.total, out.induced, out.typeII, out.firstRound, out.laterRounds]) if (arr) for (const j of none) arr[j] = NaN;
+    out.findings.push({
+      code: 'no-output',
+      severity: 'note',
+      message: `${none.length} sector${none.length > 1 ? 's have' : ' has'} no output (${none
+        .slice(0, 10)
+        .map((j) => `'${sectors.codes[j]}'`)
+        .join(', ')}${none.length > 10 ? ', …' : ''}): no coefficients, so no multipliers; they are left blank (NaN)`,
+      where: { sectors: none.map((j) => sectors.codes[j]!) },
+      data: { sectors: none.map((j) => sectors.codes[j]!) },
+    });
+  }
+  const noneSet = new Set(none);
+  const zero = [...direct.keys()].filter((j) => direct[j] === 0 && !noneSet.has(j));
   if (zero.length) {
     out.findings.push({
       code: 'no-direct-effect',
@@ -104,8 +160,8 @@ export function multipliersOf(sectors: Axis, open: LeontiefModel, measure: Measu
 }
 
 /** Multipliers for every measure, on the models built once by `buildModels`. */
-export function multipliers(models: Models, measures: readonly Measure[]): Multipliers[] {
-  return measures.map((m) => multipliersOf(models.table.sectors, models.open, m, models.closed));
+export function multipliers(models: Models, measures: readonly Measure[], options: Omit<MultiplierOptions, 'output'> = {}): Multipliers[] {
+  return measures.map((m) => multipliersOf(models.table.sectors, models.open, m, models.closed, { ...options, output: models.table.x }));
 }
 
 export const REQUIREMENTS_MULTIPLIERS_ABOUT =

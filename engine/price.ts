@@ -21,6 +21,7 @@
  * about demand falling as prices rise.
  */
 import { InputError } from './errors';
+import { noOutputSectors } from './multipliers';
 import type { Finding } from './findings';
 import type { LeontiefModel } from './leontief';
 import { axisCopy, CAUTIONS, valueAddedIndex } from './measures';
@@ -142,9 +143,12 @@ export function priceModel(t: Table, model: LeontiefModel, shock: PriceShock = {
   const percent = new Float64Array(n);
   let worst = 0;
   let worstAt = 0;
+  const none = noOutputSectors(t.x);
+  for (const j of none) base[j] = change[j] = NaN;
   for (let j = 0; j < n; j++) {
     index[j] = base[j]! + change[j]!;
     percent[j] = base[j]! !== 0 ? (100 * change[j]!) / base[j]! : 0;
+    if (t.x[j] === 0) continue;
     const gap = Math.abs(base[j]! - 1);
     if (gap > worst) {
       worst = gap;
@@ -158,6 +162,17 @@ export function priceModel(t: Table, model: LeontiefModel, shock: PriceShock = {
       message: `the base price index is not 1 in every sector (worst: '${t.sectors.codes[worstAt]}' ${base[worstAt]!.toPrecision(6)}): the columns of the table do not balance, so value added plus imports per unit differs from 1 minus the column sums of A`,
       where: { sector: t.sectors.codes[worstAt]! },
       data: { worst },
+    });
+  }
+  if (none.length) {
+    findings.push({
+      code: 'no-output',
+      severity: 'note',
+      message: `no output in ${none.length} sector${none.length > 1 ? 's' : ''} (${none
+        .slice(0, 10)
+        .map((j) => `'${t.sectors.codes[j]}'`)
+        .join(', ')}${none.length > 10 ? ', …' : ''}): no costs per unit of output, so no price index; left blank and out of the balance check`,
+      where: { sectors: none.map((j) => t.sectors.codes[j]!) },
     });
   }
   return { about: PRICE_ABOUT, sectors: axisCopy(t.sectors), costChange: dv, base, change, index, percent, findings, cautions: CAUTIONS };

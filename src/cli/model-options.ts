@@ -6,19 +6,27 @@
 import type { Command } from 'commander';
 import { InputError } from '../../engine/errors';
 import type { HouseholdOptions, Models } from '../../engine/household';
-import { buildModels, guessHouseholdColumn, guessLabourIncomeRow } from '../../engine/household';
+import { buildModels, householdClosure, CLOSURE_BASES, CLOSURE_BASIS_ABOUT, closureBasis, guessHouseholdColumn, guessLabourIncomeRow } from '../../engine/household';
+import type { ClosureBasis } from '../../engine/household';
+import type { Conventions } from '../../engine/conventions';
+import { conventionLines, conventions } from '../../engine/conventions';
+import { LeontiefModel } from '../../engine/leontief';
 import type { Measure } from '../../engine/measures';
 import { findMeasure, guessJobs, measures } from '../../engine/measures';
 import type { Table } from '../../engine/table';
 import type { ReportSetting } from '../report/model';
 import { modelAssumptions, setting } from '../report/model';
-import { UsageError } from './errors';
+import { ChecksFailed, UsageError } from './errors';
 
 export interface ModelFlags {
   household?: boolean;
   householdColumn?: string;
   labourIncomeRow?: string;
   propensity?: string;
+  householdBasis?: string;
+  householdIncome?: string;
+  householdOwnPurchases?: string;
+  split?: string;
   jobs?: string;
   satellites?: string;
   valueAddedRows?: string;
@@ -30,7 +38,11 @@ export function modelOptions(cmd: Command): Command {
   return cmd
     .option('--household-column <code>', 'final-demand column of household consumption for the Type II closure (default: guessed from the labels)')
     .option('--labour-income-row <codes>', 'value-added row(s) of labour income, comma-separated (default: guessed from the labels)')
-    .option('--propensity <share>', 'share of labour income households spend in the economy, 0 to 1 (default: from the table)')
+    .option('--propensity <share>', 'share of household income spent in the economy, 0 to 1: the household column is this share × the consumption column\'s own shares (basis propensity)')
+    .option('--household-income <amount>', "household income that household spending is divided by, in the table's money units (basis household-income; for agencies that divide by an income not in the table)")
+    .option('--household-basis <basis>', `what household spending is divided by: ${CLOSURE_BASES.join('|')} (default: labour-income, or the basis of --propensity or --household-income)`)
+    .option('--household-own-purchases <amount>', "households' purchases from households (the corner cell of a closed table), in the table's money units (default 0)")
+    .option('--split <parts>', 'rounds: split the indirect effect into the first round (A\'s column sums, weighted by the measure) and the later rounds (industrial support)')
     .option('--no-household', 'open model only: no induced effects, no Type II')
     .option('--jobs <code>', 'the satellite row that counts jobs (default: guessed from its label or unit)')
     .option('--satellites <codes>', 'satellite rows to count as measures, comma-separated (default: all)')
@@ -54,46 +66,58 @@ export interface PreparedModels {
   assumptions: string[];
   /** Whether Type II is available, and why not. */
   closure: 'closed' | 'not-found' | 'off';
+  /** The conventions behind the results (also in `assumptions`). */
+  conventions: Conventions;
+  /** Split the indirect effect into rounds (--split rounds). */
+  rounds: boolean;
 }
 
 /** Build the open model, the household closure (given, guessed or off) and the measures. */
-export function prepareModels(t: Table, f: ModelFlags): PreparedModels {
+export function prepareModels(t: Table, f: ModelFlags, file?: string): PreparedModels {
   const settings: ReportSetting[] = [];
   let household: HouseholdOptions | undefined;
   let state: PreparedModels['closure'] = 'off';
   const rows = list(f.labourIncomeRow);
+  const closureFlags = ['householdColumn', 'labourIncomeRow', 'propensity', 'householdIncome', 'householdBasis', 'householdOwnPurchases'] as const;
   if (f.household === false) {
-    if (f.householdColumn || f.labourIncomeRow) throw new UsageError('--no-household cannot be combined with --household-column or --labour-income-row', 'conflict');
-    settings.push(setting('household', 'Household closure (Type II)', 'off', 'given', 'Open model only'));
+    const given = closureFlags.filter((k) => f[k] !== undefined);
+    if (given.length) throw new UsageError(`--no-household cannot be combined with ${given.map((k) => `--${k.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)}`).join(', ')}`, 'conflict');
+    settings.push(setting('household', 'Household closure (Type II)', 'off', 'given', 'Open model only: no induced effects, so every total, induced and Type II figure is blank (null)'));
   } else {
     const column = f.householdColumn ?? guessHouseholdColumn(t);
     const income = rows ?? (guessLabourIncomeRow(t) !== undefined ? [guessLabourIncomeRow(t)!] : undefined);
     if (column !== undefined && income !== undefined && income.length) {
-      household = { income, consumption: column };
-      if (f.propensity !== undefined) {
-        const p = Number(f.propensity);
-        if (!Number.isFinite(p) || p < 0 || p > 1) throw new UsageError(`--propensity must be a share from 0 to 1; got '${f.propensity}'`, 'bad-propensity');
-        household.propensity = p;
-      }
+      household = { income, consumption: column, ...closureFigures(f) };
       state = 'closed';
       settings.push(setting('householdColumn', 'Household consumption column', column, f.householdColumn ? 'given' : 'guessed'));
       settings.push(setting('labourIncomeRow', 'Labour-income row(s)', income.join(', '), rows ? 'given' : 'guessed'));
-      settings.push(setting('propensity', 'Share of income spent in the economy', household.propensity ?? null, household.propensity !== undefined ? 'given' : 'default', household.propensity === undefined ? 'From the consumption column ÷ total labour income' : undefined));
     } else {
-      if (f.householdColumn !== undefined || rows !== undefined) {
+      if (closureFlags.some((k) => f[k] !== undefined)) {
         const missing = column === undefined ? '--household-column' : '--labour-income-row';
         throw new UsageError(`the Type II closure needs both a household column and a labour-income row; ${missing} could not be guessed from the labels`, 'closure-incomplete', `Give ${missing}, or --no-household for the open model`);
       }
       state = 'not-found';
-      settings.push(setting('household', 'Household closure (Type II)', 'not found', 'guessed', 'No household column and labour-income row could be identified from the labels; give --household-column and --labour-income-row'));
+      settings.push(setting('household', 'Household closure (Type II)', 'not found', 'guessed', `No household column and labour-income row could be told apart with confidence (${column === undefined ? 'no single household column' : 'no single labour-income row'}), so there is no closure and no Type II: choose them with --household-column and --labour-income-row, and the basis with --household-basis, --household-income or --propensity`));
     }
   }
   let models: Models;
   try {
     models = buildModels(t, household ? { household } : {});
   } catch (e) {
-    if (e instanceof InputError && e.code === 'household-not-productive') throw new InputError(e.code, `${e.message}`, e.where, 'Give --propensity below the current share, choose another --labour-income-row, or use --no-household');
+    if (e instanceof InputError && e.code === 'household-not-productive') {
+      // Not an input error: the closed model fails its checks (exit 1), with the finding that names the sectors.
+      const finding = householdClosureFinding(t, LeontiefModel.fromTable(t), household!);
+      throw new ChecksFailed(file ?? t.meta.title ?? 'the table', [finding]);
+    }
     throw e;
+  }
+  if (models.closure) {
+    const c = models.closure;
+    settings.push(setting('householdBasis', 'Closure basis (what household spending is divided by)', c.basis, f.householdBasis || f.propensity !== undefined || f.householdIncome !== undefined ? 'given' : 'default', CLOSURE_BASIS_ABOUT[c.basis]));
+    if (c.basis === 'household-income') settings.push(setting('householdIncome', 'Household income divided by', c.denominator, 'given'));
+    if (c.basis === 'propensity') settings.push(setting('propensity', 'Share of income spent in the economy', household!.propensity ?? null, 'given'));
+    if (c.ownPurchases) settings.push(setting('householdOwnPurchases', "Households' purchases from households", c.ownPurchases, 'given'));
+    settings.push(setting('spendingShare', "Share of household income spent on the table's products (implied)", c.share, 'default', `(Σ consumption column${c.ownPurchases ? ' + own purchases' : ''}) ÷ ${c.denominator.toPrecision(6)}`));
   }
   const jobs = f.jobs ?? guessJobs(t);
   const all = measures(t, {
@@ -113,5 +137,55 @@ export function prepareModels(t: Table, f: ModelFlags): PreparedModels {
     chosen = codes.map((c) => findMeasure(all, c));
   }
   settings.push(setting('measures', 'Measures', chosen.map((m) => m.code).join(', '), f.measure ? 'given' : 'default'));
-  return { models, measures: chosen, settings, assumptions: modelAssumptions(t, models.closure, { typeII: state }), closure: state };
+  const conv = conventions(models, chosen, { typeII: state });
+  const rounds = splitRounds(f.split);
+  if (rounds) settings.push(setting('split', 'Indirect effect split', 'rounds', 'given', 'First round (c′A) and later rounds (industrial support)'));
+  const assumptions = [...modelAssumptions(t, models.closure, { typeII: state }), ...conventionLines(conv, { closure: false, rounds })];
+  return { models, measures: chosen, settings, assumptions, closure: state, conventions: conv, rounds };
+}
+
+/** --split: only `rounds` is known. */
+export function splitRounds(v: string | undefined): boolean {
+  if (v === undefined) return false;
+  if (v.trim() !== 'rounds') throw new UsageError(`--split must be 'rounds'; got '${v}'`, 'bad-split', 'Give --split rounds to show the first round and the later rounds of the indirect effect');
+  return true;
+}
+
+/** The closure basis and its figures from the flags, checked (a bad number is a usage error). */
+function closureFigures(f: ModelFlags): Pick<HouseholdOptions, 'basis' | 'propensity' | 'householdIncome' | 'ownPurchases'> {
+  const out: Pick<HouseholdOptions, 'basis' | 'propensity' | 'householdIncome' | 'ownPurchases'> = {};
+  if (f.propensity !== undefined) {
+    const p = Number(f.propensity);
+    if (f.propensity.trim() === '' || !Number.isFinite(p) || p < 0 || p > 1) throw new UsageError(`--propensity must be a share from 0 to 1; got '${f.propensity}'`, 'bad-propensity');
+    out.propensity = p;
+  }
+  if (f.householdIncome !== undefined) {
+    const v = Number(f.householdIncome);
+    if (f.householdIncome.trim() === '' || !Number.isFinite(v) || v <= 0) throw new UsageError(`--household-income must be a positive amount in the table's money units; got '${f.householdIncome}'`, 'bad-household-income');
+    out.householdIncome = v;
+  }
+  if (f.householdOwnPurchases !== undefined) {
+    const v = Number(f.householdOwnPurchases);
+    if (f.householdOwnPurchases.trim() === '' || !Number.isFinite(v) || v < 0) throw new UsageError(`--household-own-purchases must be an amount of 0 or more; got '${f.householdOwnPurchases}'`, 'bad-own-purchases');
+    out.ownPurchases = v;
+  }
+  if (f.householdBasis !== undefined) {
+    if (!(CLOSURE_BASES as readonly string[]).includes(f.householdBasis)) throw new UsageError(`--household-basis must be one of ${CLOSURE_BASES.join(', ')}; got '${f.householdBasis}'`, 'bad-closure-basis');
+    out.basis = f.householdBasis as ClosureBasis;
+  }
+  if (out.propensity !== undefined && out.householdIncome !== undefined) throw new UsageError('give --propensity or --household-income, not both', 'conflict');
+  const basis = closureBasis(out);
+  if (basis === 'propensity' && out.propensity === undefined) throw new UsageError('--household-basis propensity needs --propensity', 'closure-incomplete');
+  if (basis === 'household-income' && out.householdIncome === undefined) throw new UsageError('--household-basis household-income needs --household-income', 'closure-incomplete');
+  if ((out.propensity !== undefined && basis !== 'propensity') || (out.householdIncome !== undefined && basis !== 'household-income')) {
+    throw new UsageError(`--household-basis ${basis} does not use ${out.propensity !== undefined ? '--propensity' : '--household-income'}`, 'conflict');
+  }
+  return out;
+}
+
+/** The error finding of a closure that is not productive (the engine names the sectors and the remedy). */
+function householdClosureFinding(t: Table, open: LeontiefModel, h: HouseholdOptions) {
+  const c = householdClosure(t, open, h);
+  const f = c.findings.find((x) => x.code === 'household-not-productive')!;
+  return { ...f, message: `${f.message} On the command line: --propensity below ${c.share.toPrecision(3)}, --household-income above ${(c.denominator * (1 - c.schur)).toPrecision(6)}, another --labour-income-row, or --no-household.` };
 }

@@ -13,6 +13,8 @@ import { reportSheets } from './sheets';
 /** The report as CSV text. */
 export function writeCsv(report: Report): string {
   const rows: Cell[][] = [];
+  // A failed table: the very first line says so, before any sheet.
+  if (report.failed) rows.push([report.failed.message], []);
   for (const sheet of reportSheets(report)) {
     rows.push([`[${sheet.name}]`]);
     for (const r of sheet.rows) rows.push(r.cells.map((c) => c.value));

@@ -13,6 +13,7 @@ import { EFFECT_COLOURS } from './charts/palette';
 import { escapeXml } from './charts/svg';
 import { cellFormatter } from './format';
 import type { Cell, ChartSpec, Column, Headline, Report, ReportTable, Section } from './model';
+import { failureLines } from './model';
 import { sha256Base64 } from './sha256';
 
 export const REPORT_CSS = `
@@ -26,6 +27,8 @@ h3 { font-size: 1.05rem; margin: 1.6rem 0 0.4rem; }
 p { margin: 0.4rem 0; }
 .meta, .about, .note, .unit { color: var(--muted); }
 .about { font-style: italic; }
+.failed { background: #fdecea; color: #8a1c12; border: 3px solid #8a1c12; padding: 8px 12px; margin: 0 0 12px; }
+.failed p:first-child { font-weight: 700; }
 .invented { background: var(--warn-bg); color: var(--warn); border: 2px solid var(--warn); padding: 8px 12px; font-weight: 700; letter-spacing: 0.02em; }
 .cautions { background: var(--soft); border-left: 4px solid var(--warn); padding: 4px 16px 8px; margin-top: 1rem; }
 .cautions h2 { border: 0; margin-top: 0.6rem; }
@@ -97,6 +100,10 @@ export function writeHtml(report: Report, options: HtmlOptions = {}): string {
   out.push('</head>');
   out.push('<body>');
   out.push('<header>');
+  if (report.failed) {
+    const [head, ...rest] = failureLines(report);
+    out.push(`<div class="failed" role="alert"><p>${e(head!)}</p>${rest.map((l) => `<p>${e(l)}</p>`).join('')}</div>`);
+  }
   if (report.invented) out.push('<p class="invented" role="note">INVENTED DATA: every number in this report comes from an invented table. Do not use it for any decision.</p>');
   out.push(`<h1>${e(report.title)}</h1>`);
   if (report.subtitle) out.push(`<p class="meta">${e(report.subtitle)}</p>`);

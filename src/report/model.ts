@@ -37,6 +37,7 @@ import type { Linkages } from '../../engine/linkages';
 import { KEY_SECTOR_GROUPS, LINKAGES_ABOUT } from '../../engine/linkages';
 import type { TornadoData } from '../../engine/tornado';
 import type { HouseholdClosure } from '../../engine/household';
+import { closureLine, conventions, DEFINITIONS } from '../../engine/conventions';
 import type { PriceResult } from '../../engine/price';
 import { PRICE_ABOUT } from '../../engine/price';
 import type { Extraction, ExtractionRanking } from '../../engine/extraction';
@@ -197,9 +198,19 @@ export interface ReportFinding {
   where?: string;
 }
 
+/** Set when any error finding stands: the table failed its checks, and every writer says so first. */
+export interface ReportFailure {
+  /** One sentence: the table failed its checks, so its results cannot be trusted. */
+  message: string;
+  /** The error findings. */
+  findings: ReportFinding[];
+}
+
 export interface Report {
   format: typeof REPORT_FORMAT;
   version: typeof REPORT_VERSION;
+  /** Present when any error finding stands (first in the JSON, first on every report's first page). */
+  failed?: ReportFailure;
   title: string;
   subtitle?: string;
   /** ISO 8601 date and time the report was made. */
@@ -253,6 +264,9 @@ function finite(v: ArrayLike<number>): number[] {
   return Array.from(v, (x) => (Number.isFinite(x) && x !== 0 ? x : 0));
 }
 
+/** What the rounds columns mean. */
+const ROUNDS_NOTE = 'First round = c ⊙ (A Δd), what the direct output buys from its suppliers; later rounds (industrial support) = indirect − first round.';
+
 /** The unit of number columns whose rows each state their own unit (in a Unit column). */
 const ROW_UNIT = 'unit of the row';
 
@@ -290,12 +304,11 @@ export function modelAssumptions(t: Table, closure?: HouseholdClosure, options: 
   if (t.meta.outputAssumed) out.push('The table gives coefficients without outputs: every output is taken as 1, so totals are per unit, not money.');
   if (closure) {
     out.push(
-      `Type II (induced) effects close the model for households: labour income is the value-added row${closure.incomeRows.length > 1 ? 's' : ''} ${closure.incomeRows.map((c) => `'${c}'`).join(', ')} and household spending follows the final-demand column '${closure.consumptionColumn}'; households spend ${closure.spendingRate.toPrecision(4)} in the economy per unit of labour income.`,
+      `Type II (induced) effects close the model for households: labour income is the value-added row${closure.incomeRows.length > 1 ? 's' : ''} ${closure.incomeRows.map((c) => `'${c}'`).join(', ')} and household spending follows the final-demand column '${closure.consumptionColumn}'.`,
+      closureLine(conventions({ table: t, closure }).closure),
     );
-  } else if (options.typeII === 'not-found') {
-    out.push('No household closure: no household final-demand column and labour-income row could be identified, so there are no induced effects and no Type II multipliers. Name them to close the model.');
   } else {
-    out.push('No household closure: there are no induced effects and no Type II multipliers.');
+    out.push(closureLine(conventions({ table: t }, [], options.typeII === 'not-found' ? { typeII: 'not-found' } : {}).closure));
   }
   out.push('Demand changes enter the model at their local share: only the part bought from producers inside the economy sets off the supply chain.');
   return out;
@@ -365,6 +378,7 @@ export function scenarioSection(scenario: ResolvedScenario, impact: Impact, opti
   const id = `scenario-${k}`;
   const sectors = impact.sectors;
   const money = impact.moneyUnit;
+  const rounds = impact.measures.some((m) => m.firstRound !== undefined);
   const paragraphs: string[] = [];
   if (scenario.description) paragraphs.push(scenario.description);
   paragraphs.push(
@@ -396,20 +410,34 @@ export function scenarioSection(scenario: ResolvedScenario, impact: Impact, opti
       { key: 'unit', label: 'Unit', type: 'text' },
       { key: 'direct', label: 'Direct', type: 'number', unit: ROW_UNIT, style: 'amount' },
       { key: 'indirect', label: 'Indirect', type: 'number', unit: ROW_UNIT, style: 'amount' },
+      ...(rounds
+        ? [
+            { key: 'firstRound', label: 'First round (A Δd)', type: 'number' as const, unit: ROW_UNIT, style: 'amount' as const },
+            { key: 'laterRounds', label: 'Later rounds (industrial support)', type: 'number' as const, unit: ROW_UNIT, style: 'amount' as const },
+          ]
+        : []),
       { key: 'induced', label: 'Induced', type: 'number', unit: ROW_UNIT, style: 'amount' },
       { key: 'total', label: 'Total', type: 'number', unit: ROW_UNIT, style: 'amount' },
     ],
-    rows: impact.measures.map((m) => [m.measure.label, m.unit, num(m.totals.direct), num(m.totals.indirect), num(m.totals.induced), num(m.totals.total)]),
-    notes: ['Each row is in the unit given in its Unit column.'],
+    rows: impact.measures.map((m) => [m.measure.label, m.unit, num(m.totals.direct), num(m.totals.indirect), ...(rounds ? [num(m.totals.firstRound), num(m.totals.laterRounds)] : []), num(m.totals.induced), num(m.totals.total)]),
+    notes: ['Each row is in the unit given in its Unit column.', ...(rounds ? [ROUNDS_NOTE] : [])],
   };
   const bySector: ReportTable[] = impact.measures.map((m) => ({
     id: `${id}-${m.measure.code}`,
     title: `${m.measure.label} by sector: ${scenario.name}`,
     about: `Where the effect on ${m.measure.label.toLowerCase()} happens, by sector, in ${m.unit}.`,
-    columns: [CODE, SECTOR, numberColumn('direct', 'Direct', m.unit, 'amount'), numberColumn('indirect', 'Indirect', m.unit, 'amount'), numberColumn('induced', 'Induced', m.unit, 'amount'), numberColumn('total', 'Total', m.unit, 'amount')],
-    rows: sectors.codes.map((c, i) => [c, sectors.labels[i]!, num(m.direct[i]!), num(m.indirect[i]!), num(m.induced[i]!), num(m.total[i]!)]),
-    totals: ['Total', null, num(m.totals.direct), num(m.totals.indirect), num(m.totals.induced), num(m.totals.total)],
-    notes: [],
+    columns: [
+      CODE,
+      SECTOR,
+      numberColumn('direct', 'Direct', m.unit, 'amount'),
+      numberColumn('indirect', 'Indirect', m.unit, 'amount'),
+      ...(rounds ? [numberColumn('firstRound', 'First round (A Δd)', m.unit, 'amount'), numberColumn('laterRounds', 'Later rounds (industrial support)', m.unit, 'amount')] : []),
+      numberColumn('induced', 'Induced', m.unit, 'amount'),
+      numberColumn('total', 'Total', m.unit, 'amount'),
+    ],
+    rows: sectors.codes.map((c, i) => [c, sectors.labels[i]!, num(m.direct[i]!), num(m.indirect[i]!), ...(rounds ? [num(m.firstRound?.[i]), num(m.laterRounds?.[i])] : []), num(m.induced[i]!), num(m.total[i]!)]),
+    totals: ['Total', null, num(m.totals.direct), num(m.totals.indirect), ...(rounds ? [num(m.totals.firstRound), num(m.totals.laterRounds)] : []), num(m.totals.induced), num(m.totals.total)],
+    notes: rounds ? [ROUNDS_NOTE] : [],
   }));
   const chartCodes = options.chart ?? impact.measures.filter((m) => m.measure.kind === 'output' || m.measure.kind === 'jobs').map((m) => m.measure.code);
   const charts: ChartSpec[] = impact.measures
@@ -484,26 +512,34 @@ export function multipliersSection(list: readonly Multipliers[], options: { char
       SECTOR,
       numberColumn('direct', 'Direct', u, 'multiplier'),
       numberColumn('indirect', 'Indirect', u, 'multiplier'),
-      numberColumn('simple', 'Simple (direct + indirect)', u, 'multiplier'),
     ];
+    const rounds = m.firstRound !== undefined && m.laterRounds !== undefined;
+    if (rounds) columns.push(numberColumn('firstRound', 'First round (c′A)', u, 'multiplier'), numberColumn('laterRounds', 'Later rounds (industrial support)', u, 'multiplier'));
+    columns.push(numberColumn('simple', 'Simple (direct + indirect)', u, 'multiplier'));
     if (closed) columns.push(numberColumn('induced', 'Induced', u, 'multiplier'), numberColumn('total', 'Total (with induced)', u, 'multiplier'));
     columns.push(numberColumn('typeI', 'Type I', 'ratio', 'ratio'));
     if (closed) columns.push(numberColumn('typeII', 'Type II', 'ratio', 'ratio'));
     const rows: Cell[][] = m.sectors.codes.map((c, j) => {
-      const r: Cell[] = [c, m.sectors.labels[j]!, num(m.direct[j]!), num(m.indirect[j]!), num(m.simple[j]!)];
+      const r: Cell[] = [c, m.sectors.labels[j]!, num(m.direct[j]!), num(m.indirect[j]!)];
+      if (rounds) r.push(num(m.firstRound![j]!), num(m.laterRounds![j]!));
+      r.push(num(m.simple[j]!));
       if (closed) r.push(num(m.induced![j]!), num(m.total![j]!));
       r.push(num(m.typeI[j]!));
       if (closed) r.push(num(m.typeII![j]!));
       return r;
     });
     const notes: string[] = [];
-    const zero = m.sectors.codes.filter((_, j) => !Number.isFinite(m.typeI[j]!));
+    const none = m.sectors.codes.filter((_, j) => !Number.isFinite(m.simple[j]!));
+    if (none.length) notes.push(`Every figure is blank for ${none.length} sector${none.length > 1 ? 's' : ''} with no output (${none.slice(0, 12).join(', ')}${none.length > 12 ? ', …' : ''}): without output there are no coefficients to multiply.`);
+    const zero = m.sectors.codes.filter((_, j) => !Number.isFinite(m.typeI[j]!) && Number.isFinite(m.simple[j]!));
     if (zero.length) {
       notes.push(
         `Type I${closed ? ' and Type II are' : ' is'} blank for ${zero.length} sector${zero.length > 1 ? 's' : ''} with no direct ${m.measure.label.toLowerCase()} (${zero.slice(0, 12).join(', ')}${zero.length > 12 ? ', …' : ''}): a ratio to a zero direct effect is not defined.`,
       );
     }
     if (!closed) notes.push('No household closure: induced, total and Type II multipliers are not computed.');
+    notes.push('Total sums the n sectors of the closed model; the household row is not counted. Induced = total − simple.');
+    if (rounds) notes.push('First round = c′A (for output, the column sums of A); later rounds (industrial support) = indirect − first round.');
     return {
       id: `multipliers-${m.measure.code}`,
       title: `${m.measure.label} multipliers`,
@@ -544,7 +580,11 @@ export function linkagesSection(l: Linkages): Section {
     r.push(l.group[j]!);
     return r;
   });
-  const groups = (Object.keys(KEY_SECTOR_GROUPS) as (keyof typeof KEY_SECTOR_GROUPS)[]).map((g) => `${g}: ${KEY_SECTOR_GROUPS[g]} (${l.groups[g].length ? l.groups[g].join(', ') : 'none'}).`);
+  const groups = (Object.keys(KEY_SECTOR_GROUPS) as (keyof typeof KEY_SECTOR_GROUPS)[])
+    .filter((g) => g !== 'no-output' || l.groups[g].length)
+    .map((g) => `${g}: ${KEY_SECTOR_GROUPS[g]} (${l.groups[g].length ? l.groups[g].join(', ') : 'none'}).`);
+  groups.push(DEFINITIONS.linkageBases, DEFINITIONS.normalisation, DEFINITIONS.keySectorRule, DEFINITIONS.variation);
+  const live = l.group.flatMap((g, j) => (g === 'no-output' ? [] : [j]));
   return section({
     id: 'linkages',
     kind: 'linkages',
@@ -553,7 +593,7 @@ export function linkagesSection(l: Linkages): Section {
     sheet: 'Linkages',
     paragraphs: groups,
     tables: [{ id: 'linkages', title: 'Linkages by sector', about: LINKAGES_ABOUT, columns, rows, notes: l.findings.map((f) => f.message) }],
-    charts: [{ kind: 'linkage-quadrant', id: 'linkages-chart', title: 'Key sectors: backward and forward linkage', codes: [...l.sectors.codes], labels: [...l.sectors.labels], backward: finite(l.power), forward: finite(l.sensitivity) }],
+    charts: [{ kind: 'linkage-quadrant', id: 'linkages-chart', title: 'Key sectors: backward and forward linkage', codes: live.map((j) => l.sectors.codes[j]!), labels: live.map((j) => l.sectors.labels[j]!), backward: finite(live.map((j) => l.power[j]!)), forward: finite(live.map((j) => l.sensitivity[j]!)) }],
   });
 }
 
@@ -868,7 +908,20 @@ export function buildReport(p: ReportParts): Report {
     notes,
   };
   if (p.subtitle !== undefined) r.subtitle = p.subtitle;
-  return r;
+  const errors = r.findings.filter((f) => f.severity === 'error');
+  if (!errors.length) return r;
+  const failed: ReportFailure = {
+    message: `THE TABLE FAILED ${errors.length} CHECK${errors.length > 1 ? 'S' : ''}: results computed from it cannot be trusted. Fix the table (or the options) and make the report again before using any number in it.`,
+    findings: errors.map((f) => ({ ...f })),
+  };
+  const { format, version, ...rest } = r;
+  return { format, version, failed, ...rest };
+}
+
+/** The failure lines of a report, one per error finding after the headline (empty when it did not fail). */
+export function failureLines(r: Pick<Report, 'failed'>): string[] {
+  if (!r.failed) return [];
+  return [r.failed.message, ...r.failed.findings.map((f) => `Error ${f.code}: ${f.message}${f.where ? ` (${f.where})` : ''}`)];
 }
 
 /** Every table of a report, in order (for writers and tests). */

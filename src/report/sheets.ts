@@ -8,6 +8,7 @@
  */
 import { headerWithUnit, xlsxNumberFormat } from './format';
 import type { Cell, Column, Report, ReportTable, Section } from './model';
+import { failureLines } from './model';
 
 export type RowKind = 'title' | 'heading' | 'about' | 'header' | 'data' | 'total' | 'note' | 'key' | 'blank';
 
@@ -88,6 +89,7 @@ export function reportSheets(r: Report): SheetLayout[] {
   const used = new Set<string>();
   const summary: LayoutRow[] = [row('title', r.title)];
   if (r.subtitle) summary.push(row('about', r.subtitle));
+  for (const line of failureLines(r)) summary.push(row('note', line));
   if (r.invented) summary.push(row('note', 'INVENTED DATA: every number in this report comes from an invented table. Do not use it for any decision.'));
   summary.push(
     row('key', 'Made', r.createdAt),

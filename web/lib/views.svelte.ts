@@ -27,6 +27,10 @@ export interface HouseholdSetting {
   consumption: string;
   /** The share of income spent in the economy (0 to 1); null: the column ÷ total labour income. */
   propensity: number | null;
+  /** A household income (not in the table) that spending is divided by; null or absent: none. */
+  householdIncome?: number | null;
+  /** What spending is divided by when neither a share nor an income is given: labour income (default) or the column's own total. */
+  basis?: 'labour-income' | 'consumption-total' | null;
 }
 
 export interface DraftChange {
@@ -160,7 +164,16 @@ function householdFrom(v: unknown, notes: string[]): HouseholdSetting | null {
   }
   const p = v.propensity;
   if (p !== null && p !== undefined && !(isNum(p) && p >= 0 && p <= 1)) notes.push(`household.propensity: ${JSON.stringify(p)} is not a share from 0 to 1; left out`);
-  return { use: v.use, income: [...v.income], consumption: v.consumption, propensity: isNum(p) && p >= 0 && p <= 1 ? p : null };
+  const hi = v.householdIncome;
+  if (hi !== null && hi !== undefined && !(isNum(hi) && hi > 0)) notes.push(`household.householdIncome: ${JSON.stringify(hi)} is not a positive amount; left out`);
+  const basis = v.basis === 'consumption-total' || v.basis === 'labour-income' ? v.basis : null;
+  const out: HouseholdSetting = { use: v.use, income: [...v.income], consumption: v.consumption, propensity: isNum(p) && p >= 0 && p <= 1 ? p : null };
+  // The two later fields only when set, so that older snapshots restore unchanged.
+  if (isNum(hi) && hi > 0) out.householdIncome = hi;
+  else if (hi === null) out.householdIncome = null;
+  if (basis) out.basis = basis;
+  else if (v.basis === null) out.basis = null;
+  return out;
 }
 
 /**
@@ -267,6 +280,8 @@ export function householdArg(h: HouseholdSetting | null = viewState.household): 
   if (!h.use) return 'none';
   const o: HouseholdOptions = { income: [...h.income], consumption: h.consumption };
   if (h.propensity !== null) o.propensity = h.propensity;
+  else if (h.householdIncome) o.householdIncome = h.householdIncome;
+  else if (h.basis) o.basis = h.basis;
   return o;
 }
 

@@ -1,4 +1,5 @@
 /** `ripplewise impact TABLE --scenario FILE`: each scenario's direct, indirect and induced effects on every sector and measure. */
+import { closureLine, conventionLines } from '../../../engine/conventions';
 import type { Command } from 'commander';
 import type { Impact } from '../../../engine/impact';
 import { IMPACT_ABOUT, impacts } from '../../../engine/impact';
@@ -65,7 +66,15 @@ export function impactJson(r: ResolvedScenario, im: Impact) {
       kind: m.measure.kind,
       unit: m.unit,
       totals: m.totals,
-      sectors: im.sectors.codes.map((code, i) => ({ code, label: im.sectors.labels[i]!, direct: m.direct[i]!, indirect: m.indirect[i]!, induced: m.induced[i]!, total: m.total[i]! })),
+      sectors: im.sectors.codes.map((code, i) => ({
+        code,
+        label: im.sectors.labels[i]!,
+        direct: m.direct[i]!,
+        indirect: m.indirect[i]!,
+        ...(m.firstRound ? { firstRound: m.firstRound[i]!, laterRounds: m.laterRounds![i]! } : {}),
+        induced: m.induced[i]!,
+        total: m.total[i]!,
+      })),
     })),
     findings: im.findings,
   };
@@ -82,10 +91,10 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
     bar.step('reading the scenarios');
     const sc = await loadScenarios(ctx, f.scenario, t, f.name);
     bar.step('factoring the model');
-    const prep = prepareModels(t, f);
+    const prep = prepareModels(t, f, loaded.file.name);
     bar.step('solving the scenarios');
-    const results = impacts(prep.models, sc.resolved, prep.measures);
-    const mult = multipliers(prep.models, prep.measures);
+    const results = impacts(prep.models, sc.resolved, prep.measures, { rounds: prep.rounds });
+    const mult = multipliers(prep.models, prep.measures, { rounds: prep.rounds });
     bar.stop();
     const report = () => {
       const sections: Section[] = sc.resolved.map((r, k) => scenarioSection(r, results[k]!, { index: k + 1 }));
@@ -115,6 +124,7 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
           table: describeTable(t),
           typeII: prep.closure === 'closed',
           settings: settingsJson(prep.settings),
+          conventions: prep.conventions,
           scenarios: sc.resolved.map((r, k) => impactJson(r, results[k]!)),
           cautions: results[0]?.cautions ?? [],
         }),
@@ -126,12 +136,23 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
             out.push(s.bold(`${r.name}`), `  demand change ${fixed(r.totalGross, 2)} ${r.unit}, of which local ${fixed(r.totalLocal, 2)} ${r.unit}`);
             out.push(
               textTable(
-                [{ label: 'measure' }, { label: 'direct', align: 'right' }, { label: 'indirect', align: 'right' }, { label: 'induced', align: 'right' }, { label: 'total', align: 'right' }, { label: 'unit' }],
-                im.measures.map((m) => [m.measure.label, fixed(m.totals.direct, 2), fixed(m.totals.indirect, 2), fixed(m.totals.induced, 2), fixed(m.totals.total, 2), m.unit]),
+                [
+                  { label: 'measure' },
+                  { label: 'direct', align: 'right' },
+                  { label: 'indirect', align: 'right' },
+                  ...(prep.rounds ? [{ label: 'first round', align: 'right' as const }, { label: 'later rounds', align: 'right' as const }] : []),
+                  { label: 'induced', align: 'right' },
+                  { label: 'total', align: 'right' },
+                  { label: 'unit' },
+                ],
+                im.measures.map((m) => [m.measure.label, fixed(m.totals.direct, 2), fixed(m.totals.indirect, 2), ...(prep.rounds ? [fixed(m.totals.firstRound ?? NaN, 2), fixed(m.totals.laterRounds ?? NaN, 2)] : []), fixed(m.totals.induced, 2), fixed(m.totals.total, 2), m.unit]),
               ),
             );
             if (!im.closed) out.push(s.dim('  no household closure: induced effects are zero'));
           });
+          out.push(s.dim(`  ${closureLine(prep.conventions.closure)}`));
+          for (const w of prep.models.closure?.findings ?? []) if (w.severity !== 'note') out.push(s.yellow(`  ${w.severity}: ${w.message}`));
+          out.push(s.bold('Conventions'), ...conventionLines(prep.conventions, { closure: false, rounds: prep.rounds }).map((l) => s.dim(`  ${l}`)));
           out.push(s.dim(CAUTION_LINE), '');
           return out.join('\n');
         },

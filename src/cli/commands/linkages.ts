@@ -1,5 +1,6 @@
 /** `ripplewise linkages TABLE`: backward and forward linkages, dispersion indices and key sectors. */
 import type { Command } from 'commander';
+import { conventionLines, tableConventions } from '../../../engine/conventions';
 import { KEY_SECTOR_GROUPS, LINKAGES_ABOUT, linkages } from '../../../engine/linkages';
 import { LeontiefModel } from '../../../engine/leontief';
 import { buildReport, checksSection, describeTable, linkagesSection, modelAssumptions } from '../../report/model';
@@ -71,6 +72,7 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
           group: l.group[j]!,
         })),
         keySectors: l.groups.key,
+        conventions: { ...tableConventions(t), lines: conventionLines(tableConventions(t), { linkages: true, multipliers: false, closure: false }) },
         findings: l.findings,
         cautions: l.cautions,
       }),
@@ -82,6 +84,9 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
           '',
           textTable([{ label: 'code' }, { label: 'sector' }, { label: 'backward index', align: 'right' }, { label: 'forward index', align: 'right' }, { label: 'group' }], rows),
           `Key sectors: ${l.groups.key.length ? l.groups.key.join(', ') : 'none'}`,
+          ...l.findings.map((x) => s.dim(`  note: ${x.message}`)),
+          s.bold('Conventions'),
+          ...conventionLines(tableConventions(t), { linkages: true, multipliers: false, closure: false }).map((x) => s.dim(`  ${x}`)),
           s.dim(CAUTION_LINE),
           '',
         ].join('\n');

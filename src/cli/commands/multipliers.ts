@@ -1,5 +1,6 @@
 /** `ripplewise multipliers TABLE`: per-sector multipliers of every measure, simple and total, Type I and Type II. */
 import type { Command } from 'commander';
+import { closureLine, conventionLines } from '../../../engine/conventions';
 import { multipliers, MULTIPLIERS_ABOUT } from '../../../engine/multipliers';
 import type { Multipliers } from '../../../engine/multipliers';
 import { buildReport, describeTable, multipliersSection, checksSection } from '../../report/model';
@@ -31,6 +32,9 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
     ['ripplewise multipliers table.xlsx --sheet IO --json', 'per-sector multipliers of each measure as JSON'],
     ['ripplewise multipliers table.csv --household-column HHC --labour-income-row COE', 'choose the Type II closure'],
     ['ripplewise multipliers table.csv --no-household --measure output,JOBS', 'Type I only, two measures'],
+    ['ripplewise multipliers table.xlsx --household-income 143398', 'Type II with spending divided by a household income not in the table'],
+    ['ripplewise multipliers table.csv --household-basis consumption-total', "Type II with spending divided by the consumption column's own total"],
+    ['ripplewise multipliers table.csv --split rounds', 'the indirect effect as first round and later rounds'],
     ['ripplewise multipliers table.csv --out multipliers.xlsx', 'a workbook of the multipliers'],
   ]);
   cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
@@ -55,6 +59,7 @@ export function multipliersJson(m: Multipliers) {
       total: v(m.total, j),
       typeI: v(m.typeI, j),
       typeII: v(m.typeII, j),
+      ...(m.firstRound ? { firstRound: v(m.firstRound, j), laterRounds: v(m.laterRounds, j) } : {}),
     })),
     notes: m.findings.map((f) => f.message.replace(/ \(NaN\)$/, '')),
   };
@@ -64,8 +69,8 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
   const plan = planOutputs(f, FORMATS);
   const loaded = await checkedTable(ctx, name, f);
   const t = loaded.table;
-  const prep = prepareModels(t, f);
-  const list = multipliers(prep.models, prep.measures);
+  const prep = prepareModels(t, f, loaded.file.name);
+  const list = multipliers(prep.models, prep.measures, { rounds: prep.rounds });
   const report = () =>
     buildReport({
       ...reportBase(ctx, f),
@@ -87,21 +92,25 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
         table: describeTable(t),
         typeII: prep.closure === 'closed',
         settings: settingsJson(prep.settings),
+        conventions: prep.conventions,
         measures: list.map(multipliersJson),
         findings: [...loaded.checks, ...(prep.models.closure?.findings ?? [])],
         cautions: list[0]?.cautions ?? [],
       }),
       text: (colour) => {
         const s = styles(colour);
-        const out = [`${tableLine(loaded)}`, prep.closure === 'closed' ? `Type II closed with ${prep.settings.filter((x) => x.key === 'householdColumn' || x.key === 'labourIncomeRow').map((x) => `${x.value} (${x.source})`).join(' and ')}` : 'Type II: not available (no household closure)', ''];
+        const out = [`${tableLine(loaded)}`, prep.closure === 'closed' ? `Type II closed with ${prep.settings.filter((x) => x.key === 'householdColumn' || x.key === 'labourIncomeRow').map((x) => `${x.value} (${x.source})`).join(' and ')}` : 'Type II: not available (no household closure)', closureLine(prep.conventions.closure), ''];
         for (const m of list) {
           const closed = m.total !== undefined;
           out.push(s.bold(`${m.measure.label} multipliers (${m.unit})`));
-          const cols = [{ label: 'code' }, { label: 'sector' }, { label: 'simple', align: 'right' as const }, ...(closed ? [{ label: 'total', align: 'right' as const }] : []), { label: 'Type I', align: 'right' as const }, ...(closed ? [{ label: 'Type II', align: 'right' as const }] : [])];
-          const rows = m.sectors.codes.map((c, j) => [c, m.sectors.labels[j]!.slice(0, 40), fixed(m.simple[j], 4), ...(closed ? [fixed(m.total![j], 4)] : []), fixed(m.typeI[j], 3), ...(closed ? [fixed(m.typeII![j], 3)] : [])]);
+          const rounds = m.firstRound !== undefined;
+          const cols = [{ label: 'code' }, { label: 'sector' }, ...(rounds ? [{ label: 'first round', align: 'right' as const }, { label: 'later rounds', align: 'right' as const }] : []), { label: 'simple', align: 'right' as const }, ...(closed ? [{ label: 'total', align: 'right' as const }] : []), { label: 'Type I', align: 'right' as const }, ...(closed ? [{ label: 'Type II', align: 'right' as const }] : [])];
+          const rows = m.sectors.codes.map((c, j) => [c, m.sectors.labels[j]!.slice(0, 40), ...(rounds ? [fixed(m.firstRound![j], 4), fixed(m.laterRounds![j], 4)] : []), fixed(m.simple[j], 4), ...(closed ? [fixed(m.total![j], 4)] : []), fixed(m.typeI[j], 3), ...(closed ? [fixed(m.typeII![j], 3)] : [])]);
           out.push(textTable(cols, rows));
           for (const n of m.findings) out.push(s.dim(`  note: ${n.message.replace(/ \(NaN\)$/, '')}`));
         }
+        for (const w of prep.models.closure?.findings ?? []) if (w.severity !== 'note') out.push(s.yellow(`${w.severity}: ${w.message}`));
+        out.push(s.bold('Conventions'), ...conventionLines(prep.conventions, { closure: false, rounds: prep.rounds }).map((l) => s.dim(`  ${l}`)));
         out.push(s.dim(CAUTION_LINE), '');
         return out.join('\n');
       },

@@ -77,12 +77,12 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
       sc = await loadScenarios(ctx, f.scenario, t, f.name);
     } else if (f.name) throw new UsageError('--name picks scenarios: add --scenario FILE', 'missing-option');
     bar.step('factoring the model');
-    const prep = prepareModels(t, f);
+    const prep = prepareModels(t, f, loaded.file.name);
     bar.step('multipliers and linkages');
-    const mult = multipliers(prep.models, prep.measures);
+    const mult = multipliers(prep.models, prep.measures, { rounds: prep.rounds });
     const link = linkages(t, prep.models.open);
     bar.step('scenarios');
-    const results = sc ? impacts(prep.models, sc.resolved, prep.measures) : [];
+    const results = sc ? impacts(prep.models, sc.resolved, prep.measures, { rounds: prep.rounds }) : [];
     const settings = [...prep.settings];
     const sections: Section[] = [];
     if (sc) {

@@ -102,7 +102,7 @@ describe('linkages', () => {
     expect(relErr(viaGhosh.variationForward!, lk.variationForward!)).toBeLessThan(1e-10);
     expect(linkages(t, model, { variation: false }).variationBackward).toBeUndefined();
   });
-  it('use the Ghosh inverse itself when a sector has no output, and say so', () => {
+  it('leave a sector with no output out of the Ghosh row sums, the averages and the coefficients of variation, and say so', () => {
     const t = makeTable({
       sectors: { codes: ['A', 'B', 'Z'] },
       Z: [
@@ -121,12 +121,19 @@ describe('linkages', () => {
       [0, 0, 0],
     ]);
     const G = mlInverse(MlMatrix.eye(3).sub(B));
-    expect(relErr(lk.totalForward, rowSum(G))).toBeLessThan(1e-12);
+    const g = rowSum(G);
+    expect(relErr(lk.totalForward.subarray(0, 2), g.slice(0, 2))).toBeLessThan(1e-12);
+    expect(lk.totalForward[2]).toBeNaN();
+    expect(lk.power[2]).toBeNaN();
+    expect(lk.group[2]).toBe('no-output');
+    // The indices average 1 over the two sectors with output.
+    expect(lk.sensitivity[0]! + lk.sensitivity[1]!).toBeCloseTo(2, 12);
     expect(lk.findings[0]!.code).toBe('zero-output');
     expect(lk.findings[0]!.message).toContain("'Z'");
     const mean = (v: number[]) => v.reduce((a, b) => a + b, 0) / v.length;
     const cv = (v: number[]) => Math.sqrt(v.reduce((s, x) => s + (x - mean(v)) ** 2, 0) / (v.length - 1)) / mean(v);
-    for (let i = 0; i < 3; i++) expect(lk.variationForward![i]).toBeCloseTo(cv(G.getRow(i)), 12);
+    for (let i = 0; i < 2; i++) expect(lk.variationForward![i]).toBeCloseTo(cv(G.getRow(i).slice(0, 2)), 12);
+    expect(lk.variationForward![2]).toBeNaN();
   });
 });
 

@@ -37,6 +37,9 @@ export interface HouseholdInfo {
   options?: HouseholdOptions;
   /** Σ h꜀: household spending in the economy per unit of income. */
   spendingRate?: number;
+  /** The share of household income spent on the table's products, and the closure basis behind it. */
+  share?: number;
+  basis?: string;
   /** s = 1 − hᵣ′L h꜀ (the closed model is productive when s > 0). */
   schur?: number;
   /** Why there is no closed model, in words (no guess possible, or the closure failed). */
@@ -51,7 +54,7 @@ export interface AnalysisModels {
 }
 
 function choiceKey(h: HouseholdChoice | undefined): string {
-  return typeof h === 'string' || h === undefined ? (h ?? 'guess') : JSON.stringify({ i: h.income, c: h.consumption, p: h.propensity ?? null });
+  return typeof h === 'string' || h === undefined ? (h ?? 'guess') : JSON.stringify({ i: h.income, c: h.consumption, p: h.propensity ?? null, hi: h.householdIncome ?? null, b: h.basis ?? null });
 }
 
 /**
@@ -78,6 +81,8 @@ function build(table: Table, choice: HouseholdChoice): AnalysisModels {
     try {
       const closure = householdClosure(table, open, options);
       info.spendingRate = closure.spendingRate;
+      info.share = closure.share;
+      info.basis = closure.basis;
       info.schur = closure.schur;
       info.findings = closure.findings;
       models.closure = closure;
