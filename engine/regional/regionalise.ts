@@ -121,6 +121,9 @@ export interface RegionalCoefficients {
   findings: Finding[];
 }
 
+/** A quotient is reported as capped above this (1 and round-off: a supply that equals its demand is not a surplus). */
+const CAP_REPORTED = 1 + 1e-9;
+
 /** Regional output: the basis when it is output, else national output per unit of the basis. */
 export function regionalOutput(t: Table, b: RegionalBasis): Float64Array {
   const n = t.x.length;
@@ -171,8 +174,8 @@ export function regionalCoefficients(t: Table, b: RegionalBasis, o: RegionaliseO
   const capped: CappedSector[] = [];
   for (let i = 0; i < n; i++) {
     let cells = 0;
-    if (rowRaw) cells = rowRaw[i]! > 1 ? n : 0;
-    else for (let j = 0; j < n; j++) if (raw!.data[i * n + j]! > 1 && A.data[i * n + j]! !== 0) cells++;
+    if (rowRaw) cells = rowRaw[i]! > CAP_REPORTED ? A.data.subarray(i * n, (i + 1) * n).filter((a) => a !== 0).length : 0;
+    else for (let j = 0; j < n; j++) if (raw!.data[i * n + j]! > CAP_REPORTED && A.data[i * n + j]! !== 0) cells++;
     if (cells) capped.push({ code: t.sectors.codes[i]!, label: t.sectors.labels[i]!, cells });
   }
   const localShare = new Float64Array(n);

@@ -200,6 +200,8 @@ export function scale(method: BalanceMethod, A: Matrix, u: ArrayLike<number>, v:
     const floor = Math.max(top * 1e-12, Number.MIN_VALUE);
     const pc = new Float64Array(n);
     const nc = new Float64Array(n);
+    const pr = new Float64Array(m);
+    const nr = new Float64Array(m);
     while (iterations < maxIt) {
       // Column step: sums by column with the current r; check the columns; new s.
       pc.fill(0);
@@ -212,16 +214,17 @@ export function scale(method: BalanceMethod, A: Matrix, u: ArrayLike<number>, v:
         for (let e = negPtr[i]!; e < negPtr[i + 1]!; e++) nc[negCol[e]!] = nc[negCol[e]!]! + negVal[e]! * inv;
       }
       let dev = 0;
-      for (let j = 0; j < n; j++) {
-        const sj = s[j]!;
-        const sum = sj * pc[j]! - (nc[j]! === 0 ? 0 : nc[j]! / sj);
-        if (iterations > 0) dev = Math.max(dev, rel(sum, vt[j]!, floor));
-        s[j] = root(pc[j]!, nc[j]!, vt[j]!, sj);
+      if (iterations > 0) {
+        for (let j = 0; j < n; j++) {
+          const sj = s[j]!;
+          dev = Math.max(dev, rel(sj * pc[j]! - (nc[j]! === 0 ? 0 : nc[j]! / sj), vt[j]!, floor));
+        }
+        if (dev <= tol) {
+          converged = true;
+          break;
+        }
       }
-      if (iterations > 0 && dev <= tol) {
-        converged = true;
-        break;
-      }
+      for (let j = 0; j < n; j++) s[j] = root(pc[j]!, nc[j]!, vt[j]!, s[j]!);
       // Row step: sums by row with the new s; check the rows; new r.
       dev = 0;
       for (let i = 0; i < m; i++) {
@@ -230,16 +233,18 @@ export function scale(method: BalanceMethod, A: Matrix, u: ArrayLike<number>, v:
         for (let j = 0; j < n; j++) p += P[off + j]! * s[j]!;
         let nn = 0;
         for (let e = negPtr[i]!; e < negPtr[i + 1]!; e++) nn += negVal[e]! / s[negCol[e]!]!;
+        pr[i] = p;
+        nr[i] = nn;
         const ri = r[i]!;
         dev = Math.max(dev, rel(ri * p - (nn === 0 ? 0 : nn / ri), ut[i]!, floor));
-        r[i] = root(p, nn, ut[i]!, ri);
       }
-      iterations++;
-      o.onIteration?.(iterations, dev);
       if (dev <= tol) {
         converged = true;
         break;
       }
+      for (let i = 0; i < m; i++) r[i] = root(pr[i]!, nr[i]!, ut[i]!, r[i]!);
+      iterations++;
+      o.onIteration?.(iterations, dev);
     }
     for (let i = 0; i < m; i++) {
       const off = i * n;

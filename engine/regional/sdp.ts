@@ -48,6 +48,8 @@ export function sdp(t: Table, xR: Float64Array, options: SdpOptions): { rpc: Flo
     for (let j = 0; j < n; j++) d += A.data[o + j]! * xR[j]!;
     demand[i] = d;
     raw[i] = d > 0 ? xR[i]! / d : Infinity;
+    // Supply within round-off of its demand meets it (a whole nation's table is balanced only to round-off).
+    if (Math.abs(raw[i]! - 1) <= 1e-12) raw[i] = 1;
     rpc[i] = Math.min(1, raw[i]!);
   }
   return { rpc, demand, raw };
