@@ -112,45 +112,19 @@ export function scale(method: BalanceMethod, A: Matrix, u: ArrayLike<number>, v:
   const rowName = (i: number) => o.rowCodes?.[i] ?? `row ${i + 1}`;
   const colName = (j: number) => o.colCodes?.[j] ?? `column ${j + 1}`;
   // Positive part dense, negative part in compressed rows, fixed cells out of both.
-  const P = new Float64Array(m * n);
-  const ut = Float64Array.from(u);
-  const vt = Float64Array.from(v);
-  const negPtr = new Int32Array(m + 1);
-  let negCount = 0;
   const a = A.data;
-  for (let k = 0; k < m * n; k++) if (a[k]! < 0 && !o.fixed?.[k]) negCount++;
-  const negCol = new Int32Array(negCount);
-  const negVal = new Float64Array(negCount);
-  const rowPos = new Uint8Array(m);
-  const rowNeg = new Uint8Array(m);
-  const colPos = new Uint8Array(n);
-  const colNeg = new Uint8Array(n);
-  const infeasible: Infeasible[] = [];
-  let q = 0;
-  for (let i = 0; i < m; i++) {
-    negPtr[i] = q;
-    const off = i * n;
-    for (let j = 0; j < n; j++) {
-      const x = a[off + j]!;
-      if (!Number.isFinite(x)) {
-        throw new InputError('non-finite', `cell (${rowName(i)}, ${colName(j)}) is ${x}, not a finite number`, { row: i + 1, column: j + 1, rowLabel: rowName(i), columnLabel: colName(j), text: String(x) });
-      }
-      if (o.fixed?.[off + j]) {
-        ut[i] = ut[i]! - x;
-        vt[j] = vt[j]! - x;
-      } else if (x > 0) {
-        P[off + j] = x;
-        rowPos[i] = 1;
-        colPos[j] = 1;
-      } else if (x < 0) {
-        negCol[q] = j;
-        negVal[q++] = -x;
-        rowNeg[i] = 1;
-        colNeg[j] = 1;
-      }
+  for (let k = 0; k < m * n; k++) {
+    if (!Number.isFinite(a[k]!)) {
+      const i = Math.floor(k / n);
+      const j = k % n;
+      throw new InputError('non-finite', `cell (${rowName(i)}, ${colName(j)}) is ${a[k]}, not a finite number`, { row: i + 1, column: j + 1, rowLabel: rowName(i), columnLabel: colName(j), text: String(a[k]) });
     }
   }
-  negPtr[m] = q;
+  const ut = Float64Array.from(u);
+  const vt = Float64Array.from(v);
+  const { P, negPtr, negCol, negVal, rowPos, rowNeg, colPos, colNeg } = split(a, m, n, o.fixed, ut, vt);
+  const negCount = negVal.length;
+  const infeasible: Infeasible[] = [];
   if (method === 'ras' && negCount > 0) {
     let k = 0;
     while (!(a[k]! < 0 && !o.fixed?.[k])) k++;
@@ -204,15 +178,8 @@ export function scale(method: BalanceMethod, A: Matrix, u: ArrayLike<number>, v:
     const nr = new Float64Array(m);
     while (iterations < maxIt) {
       // Column step: sums by column with the current r; check the columns; new s.
-      pc.fill(0);
-      nc.fill(0);
-      for (let i = 0; i < m; i++) {
-        const ri = r[i]!;
-        const off = i * n;
-        if (ri !== 0) for (let j = 0; j < n; j++) pc[j] = pc[j]! + ri * P[off + j]!;
-        const inv = 1 / ri;
-        for (let e = negPtr[i]!; e < negPtr[i + 1]!; e++) nc[negCol[e]!] = nc[negCol[e]!]! + negVal[e]! * inv;
-      }
+      weightedColumnSums(P, r, pc, m, n);
+      negativeColumnSums(negPtr, negCol, negVal, r, nc, m);
       let dev = 0;
       if (iterations > 0) {
         for (let j = 0; j < n; j++) {
@@ -227,16 +194,11 @@ export function scale(method: BalanceMethod, A: Matrix, u: ArrayLike<number>, v:
       for (let j = 0; j < n; j++) s[j] = root(pc[j]!, nc[j]!, vt[j]!, s[j]!);
       // Row step: sums by row with the new s; check the rows; new r.
       dev = 0;
+      weightedRowSums(P, s, pr, m, n);
+      negativeRowSums(negPtr, negCol, negVal, s, nr, m);
       for (let i = 0; i < m; i++) {
-        const off = i * n;
-        let p = 0;
-        for (let j = 0; j < n; j++) p += P[off + j]! * s[j]!;
-        let nn = 0;
-        for (let e = negPtr[i]!; e < negPtr[i + 1]!; e++) nn += negVal[e]! / s[negCol[e]!]!;
-        pr[i] = p;
-        nr[i] = nn;
         const ri = r[i]!;
-        dev = Math.max(dev, rel(ri * p - (nn === 0 ? 0 : nn / ri), ut[i]!, floor));
+        dev = Math.max(dev, rel(ri * pr[i]! - (nr[i]! === 0 ? 0 : nr[i]! / ri), ut[i]!, floor));
       }
       if (dev <= tol) {
         converged = true;
@@ -260,6 +222,105 @@ export function scale(method: BalanceMethod, A: Matrix, u: ArrayLike<number>, v:
     findings.push({ code: 'not-converged', severity: 'error', message: `${method.toUpperCase()} did not reach a relative deviation of ${tol} in ${iterations} iterations; the largest remaining is ${worst.deviation.toPrecision(3)} in ${worst.axis} '${worst.code}' (the targets may be infeasible for the pattern of zeros)`, where: worst.axis === 'row' ? { rowLabel: worst.code } : { columnLabel: worst.code } });
   }
   return { method, X, r, s, iterations, converged: converged && !infeasible.length, maxDeviation: worst.deviation, worst, infeasible, findings, tolerance: tol };
+}
+
+/**
+ * The positive part P (dense, fixed cells and negatives zero), the absolute negative part in
+ * compressed rows, which rows and columns have entries of each sign; fixed cells come off the
+ * targets `ut` and `vt` (changed in place).
+ */
+function split(a: Float64Array, m: number, n: number, fixed: Uint8Array | undefined, ut: Float64Array, vt: Float64Array) {
+  const P = new Float64Array(m * n);
+  let count = 0;
+  for (let k = 0; k < m * n; k++) if (a[k]! < 0 && !(fixed && fixed[k])) count++;
+  const negPtr = new Int32Array(m + 1);
+  const negCol = new Int32Array(count);
+  const negVal = new Float64Array(count);
+  const rowPos = new Uint8Array(m);
+  const rowNeg = new Uint8Array(m);
+  const colPos = new Uint8Array(n);
+  const colNeg = new Uint8Array(n);
+  let q = 0;
+  for (let i = 0; i < m; i++) {
+    negPtr[i] = q;
+    const off = i * n;
+    for (let j = 0; j < n; j++) {
+      const x = a[off + j]!;
+      if (fixed && fixed[off + j]) {
+        ut[i] = ut[i]! - x;
+        vt[j] = vt[j]! - x;
+      } else if (x > 0) {
+        P[off + j] = x;
+        rowPos[i] = 1;
+        colPos[j] = 1;
+      } else if (x < 0) {
+        negCol[q] = j;
+        negVal[q++] = -x;
+        rowNeg[i] = 1;
+        colNeg[j] = 1;
+      }
+    }
+  }
+  negPtr[m] = q;
+  return { P, negPtr, negCol, negVal, rowPos, rowNeg, colPos, colNeg };
+}
+
+/** pc[j] = Σᵢ r[i] P[i, j] (rows of a row-major m × n array, the inner loop unrolled by four). */
+function weightedColumnSums(P: Float64Array, r: Float64Array, pc: Float64Array, m: number, n: number): void {
+  pc.fill(0);
+  const n4 = n - (n % 4);
+  for (let i = 0; i < m; i++) {
+    const ri = r[i]!;
+    if (ri === 0) continue;
+    const off = i * n;
+    let j = 0;
+    for (; j < n4; j += 4) {
+      pc[j] += ri * P[off + j]!;
+      pc[j + 1] += ri * P[off + j + 1]!;
+      pc[j + 2] += ri * P[off + j + 2]!;
+      pc[j + 3] += ri * P[off + j + 3]!;
+    }
+    for (; j < n; j++) pc[j] += ri * P[off + j]!;
+  }
+}
+
+/** pr[i] = Σⱼ P[i, j] s[j] (four partial sums, then a clean-up loop). */
+function weightedRowSums(P: Float64Array, s: Float64Array, pr: Float64Array, m: number, n: number): void {
+  const n4 = n - (n % 4);
+  for (let i = 0; i < m; i++) {
+    const off = i * n;
+    let a0 = 0;
+    let a1 = 0;
+    let a2 = 0;
+    let a3 = 0;
+    let j = 0;
+    for (; j < n4; j += 4) {
+      a0 += P[off + j]! * s[j]!;
+      a1 += P[off + j + 1]! * s[j + 1]!;
+      a2 += P[off + j + 2]! * s[j + 2]!;
+      a3 += P[off + j + 3]! * s[j + 3]!;
+    }
+    for (; j < n; j++) a0 += P[off + j]! * s[j]!;
+    pr[i] = a0 + a1 + (a2 + a3);
+  }
+}
+
+/** nc[j] = Σᵢ N[i, j] / r[i] over the negative entries in compressed rows. */
+function negativeColumnSums(ptr: Int32Array, col: Int32Array, val: Float64Array, r: Float64Array, nc: Float64Array, m: number): void {
+  nc.fill(0);
+  for (let i = 0; i < m; i++) {
+    const inv = 1 / r[i]!;
+    for (let e = ptr[i]!; e < ptr[i + 1]!; e++) nc[col[e]!] += val[e]! * inv;
+  }
+}
+
+/** nr[i] = Σⱼ N[i, j] / s[j]. */
+function negativeRowSums(ptr: Int32Array, col: Int32Array, val: Float64Array, s: Float64Array, nr: Float64Array, m: number): void {
+  for (let i = 0; i < m; i++) {
+    let a = 0;
+    for (let e = ptr[i]!; e < ptr[i + 1]!; e++) a += val[e]! / s[col[e]!]!;
+    nr[i] = a;
+  }
 }
 
 /** The positive root s of p s² − t s − nn = 0 (p s = t when nn = 0); `keep` where there is none. */
