@@ -192,7 +192,7 @@ export function regionalCoefficients(t: Table, b: RegionalBasis, o: RegionaliseO
     findings.push({
       code: 'quotient-capped',
       severity: 'note',
-      message: `the quotient was above 1 and capped at 1 for ${capped.length} selling sector${capped.length > 1 ? 's' : ''} (${capped.slice(0, 10).map((c) => `'${c.code}'`).join(', ')}${capped.length > 10 ? ', …' : ''}): the region is taken to supply its own needs for ${capped.length > 1 ? 'these products' : 'this product'} (in the cells capped) and the surplus is not counted as exports to itself`,
+      message: `the quotient was above 1 and capped at 1 for ${capped.length} selling sector${capped.length > 1 ? 's' : ''} (${capped.slice(0, 10).map((c) => `'${c.code}'`).join(', ')}${capped.length > 10 ? ', …' : ''}): the region is taken to supply its own needs for ${capped.length > 1 ? 'these products' : 'this product'} (in the cells capped), and what it makes beyond them is sold outside the region`,
       where: { sectors: capped.map((c) => c.code) },
     });
   }
