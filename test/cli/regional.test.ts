@@ -83,6 +83,19 @@ describe('ripplewise regionalise', () => {
     expect(html).toMatch(/Local guidance first/);
   });
 
+  it('sums a finer regional file onto the table’s sectors through a concordance', async () => {
+    const fine = join(dir, 'fine.csv');
+    const con = join(dir, 'fine-map.csv');
+    writeFileSync(fine, 'code,Region (jobs),Nation (jobs)\nA01,12,60\nA02,8,40\nC10,20,300\nS90,60,600\n');
+    writeFileSync(con, 'code,group\nA01,AGR\nA02,AGR\nC10,MAN\nS90,SRV\n');
+    const r = await run(['regionalise', national, '--regional', fine, '--concordance', con, '--method', 'slq', '--json']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const j = JSON.parse(r.stdout);
+    expect(j.sectors.map((s: { region: number }) => s.region)).toEqual([20, 20, 60]);
+    expect(j.sectors.map((s: { slq: number }) => s.slq)).toEqual([2, 2 / 3, 1].map((v) => expect.closeTo(v, 12)));
+  });
+
   it('names the file, cell, row, column and text of a bad value (exit 2)', async () => {
     const bad = join(dir, 'bad.csv');
     writeFileSync(bad, 'code,Region (jobs)\nAGR,20\nMAN,n/a\nSRV,60\n');
