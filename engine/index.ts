@@ -136,3 +136,5 @@ export { syntheticTable, syntheticCoefficients } from './synthetic';
 export type { SyntheticOptions } from './synthetic';
 export { aggregate, AGGREGATE_ABOUT } from './aggregate';
 export type { Concordance } from './aggregate';
+// Regional tables: quotient methods, the supply-demand pool, two regions, RAS and GRAS.
+export * from './regional/index';

@@ -23,6 +23,8 @@ import { register as price } from './commands/price';
 import { register as report } from './commands/report';
 import { register as requirements } from './commands/requirements';
 import { register as uncertainty } from './commands/uncertainty';
+import { register as regionalise } from './commands/regionalise';
+import { register as balance } from './commands/balance';
 
 /** A command's action: it returns its exit code. */
 export type Action = (ctx: CliContext) => Promise<number>;
@@ -58,7 +60,7 @@ Examples:
   $ ripplewise requirements --make make.txt --use use.txt --kind industry-by-commodity --out total.csv
 `,
     );
-  for (const r of [check, coefficients, requirements, multipliers, impact, uncertainty, linkages, price, extract, report, convert, aggregate]) r(p, run);
+  for (const r of [check, coefficients, requirements, multipliers, impact, uncertainty, linkages, price, extract, report, convert, aggregate, regionalise, balance]) r(p, run);
   return p;
 }
 

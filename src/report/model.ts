@@ -122,7 +122,7 @@ export type ChartSpec =
   | { kind: 'tornado'; id: string; title: string; unit: string; base: number; percent: number; items: { label: string; low: number; high: number }[] }
   | { kind: 'percentile-bands'; id: string; title: string; unit: string; categories: string[]; low: number[]; mid: number[]; high: number[]; point: number[] };
 
-export type SectionKind = 'checks' | 'scenario' | 'comparison' | 'multipliers' | 'linkages' | 'tornado' | 'uncertainty' | 'matrix' | 'price' | 'extraction' | 'text';
+export type SectionKind = 'checks' | 'scenario' | 'comparison' | 'multipliers' | 'linkages' | 'tornado' | 'uncertainty' | 'matrix' | 'price' | 'extraction' | 'text' | 'regional' | 'balance';
 
 /** A headline number for the summary. */
 export interface Headline {
