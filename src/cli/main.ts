@@ -22,6 +22,7 @@ import { register as price } from './commands/price';
 import { register as report } from './commands/report';
 import { register as requirements } from './commands/requirements';
 import { register as uncertainty } from './commands/uncertainty';
+import { register as sweep } from './commands/sweep';
 
 /** A command's action: it returns its exit code. */
 export type Action = (ctx: CliContext) => Promise<number>;
@@ -58,6 +59,7 @@ Examples:
 `,
     );
   for (const r of [check, coefficients, requirements, multipliers, impact, uncertainty, linkages, price, extract, report, convert, aggregate]) r(p, run);
+  sweep(p, run);
   return p;
 }
 
