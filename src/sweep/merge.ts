@@ -55,6 +55,7 @@ function planOf(m: Manifest): ReturnType<typeof expand> {
     cv: m.plan.cv,
     effects: m.plan.effects.filter((e): e is (typeof EFFECTS)[number] => (EFFECTS as readonly string[]).includes(e)),
     productivity: 'column-sums',
+    rowsPerGroup: 1,
   };
   return expand(plan, m.scenarios.map((name) => ({ set: 0, name })));
 }

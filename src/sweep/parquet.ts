@@ -19,7 +19,8 @@
  * Files are written whole to a temporary name in the same folder and then renamed, so a file that
  * exists is complete. Nothing here depends on the clock: the same rows give the same bytes.
  */
-import { closeSync, openSync, readFileSync, renameSync, unlinkSync, writeSync, fsyncSync } from 'node:fs';
+import { closeSync, mkdirSync, openSync, readFileSync, renameSync, unlinkSync, writeSync, fsyncSync } from 'node:fs';
+import { dirname } from 'node:path';
 import { ByteWriter, ParquetWriter } from 'hyparquet-writer';
 import type { Writer } from 'hyparquet-writer';
 import { parquetMetadata, parquetRead } from 'hyparquet';
@@ -114,6 +115,7 @@ export class ResultsFile {
     meta: Record<string, string>,
     createdBy: string,
   ) {
+    mkdirSync(dirname(path), { recursive: true });
     this.tmp = `${path}.tmp-${process.pid}`;
     this.fd = openSync(this.tmp, 'w');
     this.writer = new ParquetWriter({

@@ -8,7 +8,8 @@
  *     "tables": [ { "name": "coast", "file": "coast.csv", "mapping": "coast-mapping.json" } ],
  *     "scenarios": [ { "file": "scenarios.json", "names": ["New plant"] } ],
  *     "parameters": { "household": ["off", "table", 0.6, 0.8], "cv": [0, 0.1] },
- *     "measures": ["output", "value-added"], "effects": ["direct", "indirect", "induced", "total"] }
+ *     "measures": ["output", "value-added"], "effects": ["direct", "indirect", "induced", "total"],
+ *     "rowsPerGroup": 65536 }
  *
  * Paths are relative to the plan file's folder. `household` values: "off" (open model, Type I
  * only), "table" (the closure with the share of income spent taken from the table) or a share
@@ -58,9 +59,11 @@ export interface SweepPlan {
   measures?: string[];
   effects: Effect[];
   productivity: 'column-sums' | 'perron';
+  /** Target rows of one Parquet row group (default 65,536); a group always holds whole units. */
+  rowsPerGroup: number;
 }
 
-const TOP_KEYS = ['format', 'version', 'name', 'seed', 'draws', 'tables', 'scenarios', 'parameters', 'measures', 'effects', 'productivity', 'description'];
+const TOP_KEYS = ['format', 'version', 'name', 'seed', 'draws', 'tables', 'scenarios', 'parameters', 'measures', 'effects', 'productivity', 'description', 'rowsPerGroup'];
 const PARAMETER_KEYS = ['household', 'cv'];
 const MAX_UNITS = 100_000_000;
 
@@ -147,7 +150,13 @@ export function readPlan(text: string, file: string): SweepPlan {
     cv,
     effects: [...EFFECTS],
     productivity: 'column-sums',
+    rowsPerGroup: 65_536,
   };
+  const rpg = c.optNumber(o.rowsPerGroup, 'rowsPerGroup');
+  if (rpg !== undefined) {
+    if (!Number.isInteger(rpg) || rpg < 1 || rpg > 10_000_000) c.fail('rowsPerGroup', 'a whole number from 1 to 10,000,000', rpg);
+    plan.rowsPerGroup = rpg;
+  }
   if (o.measures !== undefined) {
     plan.measures = distinct(c, c.strings(o.measures, 'measures'), 'measures');
     if (!plan.measures.length) c.fail('measures', 'a list of at least one measure code', o.measures);

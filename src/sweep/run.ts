@@ -49,8 +49,6 @@ import { shardFolder, shardRange } from './shard';
 
 export const MANIFEST_FORMAT = 'ripplewise-sweep-shard';
 export const MANIFEST_VERSION = 1;
-/** Target rows of one row group; a group holds whole units. */
-export const ROWS_PER_GROUP = 65_536;
 /** Row groups per part file. */
 export const GROUPS_PER_PART = 8;
 
@@ -183,7 +181,7 @@ export async function loadSweep(ctx: CliContext, planName: string): Promise<Load
   }
   const expansion = expand(plan, scenarioNames!);
   const rowsPerUnit = Math.max(...tables.map((t) => t.n * t.prepared[0]!.measures.length * plan.effects.length));
-  const groupUnits = Math.max(1, Math.floor(ROWS_PER_GROUP / rowsPerUnit));
+  const groupUnits = Math.max(1, Math.floor(plan.rowsPerGroup / rowsPerUnit));
   return { plan, planFile: planName, expansion, inputs, inputsDigest: inputsDigest(inputs), planSha256: planFile.sha256, tables, entries, groupUnits };
 }
 
