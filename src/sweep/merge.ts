@@ -161,7 +161,9 @@ export async function mergeShards(check: MergeCheck, out: string): Promise<Merge
           pending = new RowBuffer();
         }
         pendingGroup = g;
-        pending.append(b, r, e);
+        // A part's row group that is a whole plan group (the usual case) is taken as it is.
+        if (!pending.length && r === 0 && e === b.length) pending = b;
+        else pending.append(b, r, e);
         r = e;
       }
       }
