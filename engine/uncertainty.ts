@@ -367,6 +367,27 @@ export function drawCoefficients(p: PreparedMonteCarlo, index: number, out = new
   return out;
 }
 
+/**
+ * Why the drawn coefficients `a` (row-major n × n) are left out under the run's productivity
+ * rule, or undefined when they are kept: a column summing to 1 or more ('column-sums'), or a
+ * Perron root of 1 or more ('perron', checked only when a column sum reaches 1).
+ */
+export function productivityRejection(p: Pick<PreparedMonteCarlo, 'n' | 'rule'>, a: Float64Array, draw: number): RejectedDraw | undefined {
+  const n = p.n;
+  const cs = columnSums(a, n);
+  let bad = -1;
+  for (let j = 0; j < n; j++) {
+    if (!(cs[j]! < 1)) {
+      bad = j;
+      break;
+    }
+  }
+  if (bad < 0) return undefined;
+  if (p.rule === 'column-sums') return { draw, reason: 'column-sum', sector: bad, value: cs[bad]! };
+  const pr = perronRoot({ rows: n, cols: n, data: a }, { threshold: 1 });
+  return pr.upper < 1 ? undefined : { draw, reason: 'perron', value: pr.lower };
+}
+
 /** The quantities of one model I − A′ (factored) into `row`; false when a value is not finite. */
 function evaluate(p: PreparedMonteCarlo, lu: LU, row: Float64Array): boolean {
   const { n, measures, scenarios } = p;
@@ -416,29 +437,11 @@ export function runDraws(spec: MonteCarloSpec | PreparedMonteCarlo, start: numbe
   for (let k = start; k < end; k++) {
     if (options.signal?.aborted) throw new CancelledError(`the Monte Carlo run was cancelled after ${k - start} of ${total} draws`);
     drawCoefficients(p, k, a);
-    const cs = columnSums(a, n);
-    let bad = -1;
-    for (let j = 0; j < n; j++) {
-      if (!(cs[j]! < 1)) {
-        bad = j;
-        break;
-      }
-    }
-    let ok = true;
-    if (bad >= 0) {
-      if (p.rule === 'column-sums') {
-        rejectedByColumn[bad]!++;
-        reject({ draw: k, reason: 'column-sum', sector: bad, value: cs[bad]! });
-        ok = false;
-      } else {
-        const pr = perronRoot({ rows: n, cols: n, data: a }, { threshold: 1 });
-        if (!(pr.upper < 1)) {
-          reject({ draw: k, reason: 'perron', value: pr.lower });
-          ok = false;
-        }
-      }
-    }
-    if (ok) {
+    const why = productivityRejection(p, a, k);
+    if (why) {
+      if (why.reason === 'column-sum') rejectedByColumn[why.sector!]!++;
+      reject(why);
+    } else {
       // I − A′ in place, then factor in place.
       for (let q = 0; q < n * n; q++) a[q] = -a[q]!;
       for (let i = 0; i < n; i++) a[i * n + i]! += 1;

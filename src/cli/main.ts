@@ -25,6 +25,7 @@ import { register as requirements } from './commands/requirements';
 import { register as uncertainty } from './commands/uncertainty';
 import { register as regionalise } from './commands/regionalise';
 import { register as balance } from './commands/balance';
+import { register as sweep } from './commands/sweep';
 
 /** A command's action: it returns its exit code. */
 export type Action = (ctx: CliContext) => Promise<number>;
@@ -61,6 +62,7 @@ Examples:
 `,
     );
   for (const r of [check, coefficients, requirements, multipliers, impact, uncertainty, linkages, price, extract, report, convert, aggregate, regionalise, balance]) r(p, run);
+  sweep(p, run);
   return p;
 }
 
