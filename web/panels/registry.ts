@@ -14,6 +14,7 @@ import ResultsPanel from './ResultsPanel.svelte';
 import SensitivityPanel from './SensitivityPanel.svelte';
 import LayoutPanel from './LayoutPanel.svelte';
 import ReportPanel from './ReportPanel.svelte';
+import ProjectsPanel from './ProjectsPanel.svelte';
 
 export const panels: Partial<Record<Step, Component>> = {
   open: OpenPanel,
@@ -26,4 +27,5 @@ export const panels: Partial<Record<Step, Component>> = {
   results: ResultsPanel,
   sensitivity: SensitivityPanel,
   report: ReportPanel,
+  projects: ProjectsPanel,
 };
