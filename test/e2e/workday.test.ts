@@ -1,0 +1,245 @@
+/**
+ * A practitioner's working day in Debian's Chromium: two projects in the browser and switching
+ * between them (the first one's scenarios stay its own), the header naming a file still at the
+ * Layout step, the source file kept so that a finding shows its cell after a reload, the
+ * scenario builder's messages only once a field was left, the banner on every view of a table
+ * that failed its checks, the tidy CSV read back, and the steps folded at 800 px.
+ *
+ * The tidy CSV's output effects are compared with ml-matrix 6.15.1 (an independent
+ * general-purpose library): direct + indirect output by sector = (I − A)⁻¹ Δd. The demo economy
+ * and the failing two-sector table are invented and prove nothing about economics.
+ */
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import type { Download, Page } from 'playwright-core';
+import Papa from 'papaparse';
+import { inverse as mlInverse, Matrix as MlMatrix } from 'ml-matrix';
+import { checks, makeTable } from '../../engine/index';
+import type { PlainTable } from '../../engine/index';
+import { readTableFile } from '../../src/io/index';
+import type { Browser, Served } from './helpers';
+import { buildSite, launch, REPO, requireChromium, screenshot, serveSite } from './helpers';
+
+const chromium = requireChromium('the working-day browser test');
+
+describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, banner, tidy CSV, narrow screens', () => {
+  let site: string;
+  let served: Served;
+  let b: Browser;
+  let page: Page;
+  let work: string;
+  let csvPath: string;
+  let failingPath: string;
+
+  const nav = async (name: string) => {
+    const toggle = page.locator('.nav-toggle');
+    if (await toggle.isVisible()) {
+      if ((await toggle.getAttribute('aria-expanded')) !== 'true') await toggle.click();
+    }
+    await page.getByRole('navigation').getByRole('button', { name, exact: true }).click();
+  };
+  const header = () => page.locator('header .table-name').textContent();
+  const saved = () => expect.poll(() => page.locator('header .autosave').textContent(), { timeout: 10_000 }).toBe('Saved in this browser');
+  const fileInput = () => page.locator('main input[type=file]').first();
+  const DEMO = 'Vellan Coast (invented demo)';
+
+  async function downloaded(click: () => Promise<void>): Promise<{ d: Download; text: string }> {
+    const wait = page.waitForEvent('download', { timeout: 30_000 });
+    await click();
+    const d = await wait;
+    const path = join(work, d.suggestedFilename());
+    await d.saveAs(path);
+    return { d, text: readFileSync(path, 'utf8') };
+  }
+
+  beforeAll(async () => {
+    work = mkdtempSync(join(tmpdir(), 'rw-e2e-day-'));
+    // The demo CSV with one flow raised by 40, so that FISH no longer balances (a finding with a cell).
+    const lines = readFileSync(join(REPO, 'data-demo/vellan-coast.csv'), 'utf8').split('\n');
+    const at = lines.findIndex((l) => l.startsWith('FISH,'));
+    const c = lines[at]!.split(',');
+    c[5] = String(Number(c[5]) + 40);
+    lines[at] = c.join(',');
+    csvPath = join(work, 'coast-edited.csv');
+    writeFileSync(csvPath, lines.join('\n'));
+    // Two invented sectors; Agri buys 110 of inputs per 100 of output (technical coefficients sum past 1).
+    const failing: PlainTable = {
+      sectors: { codes: ['AGR', 'BLD'], labels: ['Agri', 'Build'] },
+      Z: [
+        [60, 20],
+        [50, 10],
+      ],
+      finalDemand: { codes: ['HH'], labels: ['Households'], values: [[10], [5]] },
+      valueAdded: { codes: ['W'], labels: ['Wages'], values: [[5, 10]] },
+      x: [100, 40],
+      meta: { title: 'Failing two-sector table (invented)' },
+    };
+    expect(checks(makeTable(failing)).some((f) => f.severity === 'error')).toBe(true);
+    failingPath = join(work, 'failing.json');
+    writeFileSync(failingPath, JSON.stringify(failing));
+    site = await buildSite();
+    served = await serveSite(site);
+    b = await launch(chromium!, { width: 1440, height: 900 });
+    page = b.page;
+  }, 240_000);
+
+  afterAll(async () => {
+    await b?.close();
+    await served?.close();
+    if (site) rmSync(site, { recursive: true, force: true });
+    if (work) rmSync(work, { recursive: true, force: true });
+  });
+
+  it('opens the demo as the first project, listed with its table, last change and size', async () => {
+    await page.goto(served.url);
+    await expect.poll(header, { timeout: 20_000 }).toBe(DEMO);
+    await saved();
+    await nav('Projects');
+    const rows = page.locator('table.projects tbody tr');
+    await expect.poll(() => rows.count()).toBe(1);
+    const text = (await rows.first().textContent())!;
+    expect(text).toContain(DEMO);
+    expect(text).toMatch(/\d+ sectors/);
+    expect(text).toMatch(/\d+(\.\d)? (KB|B|MB)/);
+    expect(text).toMatch(/\(open\)/);
+  });
+
+  it('shows a new change\'s problems only once a field of it was left, not when it is added', async () => {
+    await nav('Scenarios');
+    await page.getByRole('button', { name: 'Add a scenario' }).click();
+    await page.locator('#sector-search').fill('FOOD');
+    await page.locator('#sector-search').press('Enter');
+    const value = page.getByLabel(/^Change 1: amount in/);
+    await value.waitFor();
+    // The engine has checked it (the list says so), yet no message is shown in the row or below.
+    await expect.poll(() => page.locator('.pick small.bad').count()).toBe(1);
+    expect(await page.locator('.problems').count()).toBe(0);
+    expect(await page.getByText(/give either an amount or a percentage/).count()).toBe(0);
+    await screenshot(page, 'day-scenario-fresh');
+    // Leaving the field empty: now the message shows.
+    await value.focus();
+    await page.keyboard.press('Tab');
+    await expect.poll(() => page.locator('.problems').textContent()).toMatch(/give either an amount or a percentage/);
+    await value.fill('10');
+    await expect.poll(() => page.locator('.pick small', { hasText: 'ready' }).count()).toBe(1);
+    await saved();
+  });
+
+  it('a file waiting at the Layout step is named in the header; reading it starts a second project', async () => {
+    await nav('Open');
+    await fileInput().setInputFiles(csvPath);
+    await page.locator('#layout-h').waitFor();
+    expect(await header()).toBe(`Reading coast-edited.csv: layout not confirmed (open now: ${DEMO})`);
+    await page.getByRole('button', { name: 'Read the table' }).click();
+    await page.locator('#checks-h').waitFor();
+    await expect.poll(header).toBe('coast-edited.csv');
+    await nav('Scenarios');
+    await expect.poll(() => page.locator('.pick').count()).toBe(0);
+    await saved();
+    await nav('Projects');
+    await expect.poll(() => page.locator('table.projects tbody tr').count()).toBe(2);
+    const names = await page.locator('table.projects tbody th').allTextContents();
+    expect(names.some((n) => n.startsWith('coast-edited.csv') && n.includes('(open)'))).toBe(true);
+    expect(names.some((n) => n === DEMO)).toBe(true);
+    await screenshot(page, 'day-projects');
+  });
+
+  it('after a reload the project is back with its source file: a finding still shows its cell', async () => {
+    await page.reload();
+    await expect.poll(header, { timeout: 20_000 }).toBe('coast-edited.csv');
+    await nav('Checks');
+    const r = await readTableFile(new Uint8Array(readFileSync(csvPath)), { file: 'coast-edited.csv' });
+    const cell = [...r.findings, ...checks(r.table)].find((f) => f.code === 'total-mismatch')!.where!.cell!;
+    await page.locator('.findings li', { hasText: 'total-mismatch' }).getByRole('button').click();
+    await expect.poll(() => page.locator('.cell h3').textContent()).toBe(`file coast-edited.csv, cell ${cell}`);
+    await expect.poll(() => page.locator('.preview td[aria-current="true"]').getAttribute('data-cell')).toBe(cell);
+  });
+
+  it('switches back to the demo project with its own scenario, and writes the tidy CSV that ml-matrix confirms', async () => {
+    await nav('Projects');
+    await page.locator('table.projects tbody tr', { hasText: DEMO }).getByRole('button', { name: 'Open' }).click();
+    await expect.poll(header).toBe(DEMO);
+    await nav('Scenarios');
+    await expect.poll(() => page.locator('.pick').count()).toBe(1);
+    await nav('Report');
+    const tidy = await downloaded(() => page.getByRole('button', { name: 'Download tidy CSV of the impacts' }).click());
+    expect(tidy.d.suggestedFilename()).toMatch(/\.tidy\.csv$/);
+    expect(tidy.text).toMatch(/^# .*\n/);
+    expect(tidy.text).toMatch(/not a forecast/i);
+    const parsed = Papa.parse<Record<string, string>>(tidy.text, { header: true, comments: '#', skipEmptyLines: true });
+    expect(parsed.errors).toEqual([]);
+    expect(parsed.meta.fields).toEqual(['scenario', 'sector', 'measure', 'effect', 'value', 'unit']);
+    const rows = parsed.data;
+    expect(new Set(rows.map((x) => x.effect))).toEqual(new Set(['direct', 'indirect', 'induced', 'total']));
+    const table = makeTable(JSON.parse(readFileSync(join(REPO, 'data-demo/vellan-coast.table.json'), 'utf8')) as PlainTable);
+    const n = table.x.length;
+    const M = new MlMatrix(n, n);
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) M.set(i, j, (i === j ? 1 : 0) - table.Z.data[i * n + j]! / table.x[j]!);
+    const L = mlInverse(M);
+    const food = table.sectors.codes.indexOf('FOOD');
+    const out = rows.filter((x) => x.measure === 'output');
+    expect(out.length).toBe(n * 4);
+    for (let i = 0; i < n; i++) {
+      const code = table.sectors.codes[i]!;
+      const v = (e: string) => Number(out.find((x) => x.sector === code && x.effect === e)!.value);
+      expect(Math.abs(v('direct') + v('indirect') - 10 * L.get(i, food))).toBeLessThan(1e-9);
+      expect(Math.abs(v('direct') + v('indirect') + v('induced') - v('total'))).toBeLessThan(1e-9);
+    }
+  });
+
+  it('shows the failed-checks banner on every view of a failing table, with a way to the checks', async () => {
+    await nav('Open');
+    await fileInput().setInputFiles(failingPath);
+    await page.locator('#checks-h').waitFor();
+    await expect.poll(header).toBe('failing.json');
+    const banner = page.locator('.failed-banner');
+    await expect.poll(() => banner.textContent()).toMatch(/This table failed its checks:.*sum to 1 or more.*Results below cannot be trusted/s);
+    for (const step of ['Multipliers', 'Coefficients', 'Linkages', 'Scenarios', 'Report']) {
+      await nav(step);
+      await expect.poll(() => banner.textContent(), { message: step }).toMatch(/This table failed its checks:.*Results below cannot be trusted/s);
+    }
+    await nav('Multipliers');
+    await screenshot(page, 'day-banner');
+    await banner.getByRole('button', { name: 'See the checks' }).click();
+    await page.locator('#checks-h').waitFor();
+    // The demo (no error finding) has no banner.
+    await nav('Projects');
+    await page.locator('table.projects tbody tr', { hasText: DEMO }).getByRole('button', { name: 'Open' }).click();
+    await expect.poll(header).toBe(DEMO);
+    await nav('Multipliers');
+    expect(await banner.count()).toBe(0);
+  });
+
+  it('folds the steps behind a button at 800 px and shows them again at 1440 px', async () => {
+    await page.setViewportSize({ width: 800, height: 900 });
+    const toggle = page.locator('.nav-toggle');
+    await expect.poll(() => toggle.isVisible()).toBe(true);
+    const list = page.locator('#steps-list');
+    expect(await list.isVisible()).toBe(false);
+    // The view takes the whole width below the bar.
+    const main = await page.locator('main').boundingBox();
+    expect(main!.x).toBeLessThan(5);
+    expect(main!.width).toBeGreaterThan(780);
+    await toggle.click();
+    expect(await toggle.getAttribute('aria-expanded')).toBe('true');
+    expect(await list.isVisible()).toBe(true);
+    await screenshot(page, 'day-800-open-nav');
+    await page.getByRole('navigation').getByRole('button', { name: 'Linkages', exact: true }).click();
+    await page.locator('#link-h, h2:has-text("Linkages")').first().waitFor();
+    expect(await list.isVisible()).toBe(false);
+    expect(await toggle.textContent()).toMatch(/Steps: Linkages/);
+    // Nothing sticks out sideways at 800 px.
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(800);
+    await screenshot(page, 'day-800');
+    await page.setViewportSize({ width: 1440, height: 900 });
+    await expect.poll(() => toggle.isVisible()).toBe(false);
+    expect(await list.isVisible()).toBe(true);
+  });
+
+  it('raised no page error and sent no request beyond 127.0.0.1', () => {
+    expect(b.errors).toEqual([]);
+    expect(b.outside).toEqual([]);
+  });
+});
