@@ -16,6 +16,7 @@ import type { Scenario } from '../../engine/scenario';
 import { writeProject } from '../../src/project/project';
 import type { Project, ProjectSource, SettingValue } from '../../src/project/project';
 import type { DraftScenario, ViewState } from './views.svelte';
+import type { TableEdit } from './history.svelte';
 
 export const WORK_VERSION = 1;
 
@@ -47,6 +48,8 @@ export interface Work {
   /** Findings of the reader that opened the file (the checks are recomputed). */
   readFindings: Finding[];
   views: ViewState;
+  /** The edits made to the table since it was read (web/lib/history.svelte.ts). */
+  edits?: TableEdit[];
   step: string;
   theme: 'system' | 'light' | 'dark';
   /** '' for the browser's locale. */
@@ -168,6 +171,7 @@ export function checkWork(o: unknown): { work?: Omit<Work, 'views'> & { views: u
       source: table ? src : null,
       readFindings: table && Array.isArray(o.readFindings) ? (o.readFindings as Finding[]) : [],
       views: o.views,
+      edits: table && Array.isArray(o.edits) ? (o.edits as TableEdit[]).filter((e) => isObj(e) && typeof e.label === 'string') : [],
       step: typeof o.step === 'string' ? o.step : 'open',
       theme,
       locale: typeof o.locale === 'string' ? o.locale : '',

@@ -22,6 +22,8 @@ import { checkWork, Debouncer, idbKV, isQuotaError, memoryStore, ProjectStore, p
 import type { ProjectSummary, SourceFile, SourceInfo, Work, WorkStore } from './persist';
 import { defaultViews, draftOf, restoreViews, scenariosForProject, snapshotViews } from './views.svelte';
 import { setNumberLocale } from './numbers';
+import { record, resetHistory, setHistoryHost } from './history.svelte';
+import type { Snapshot, TableEdit } from './history.svelte';
 
 export type Step = 'open' | 'projects' | 'layout' | 'checks' | 'coefficients' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'report';
 
@@ -70,6 +72,8 @@ export const app = $state({
   projectName: '' as string,
   /** Whether opening a file starts a new project (the default) or replaces the current one's table. */
   openInto: 'new' as 'new' | 'replace',
+  /** The edits made to the table since it was read (the project keeps them; a report lists them). */
+  edits: [] as TableEdit[],
   /** A note about the browser's storage (eviction, the source file not kept). */
   storageNote: '' as string,
   /** True once startup is done (the autosave restored, or the demo opened). */
@@ -177,6 +181,8 @@ interface UseOptions {
   step?: Step;
   /** A views snapshot to restore (autosave or project); its notes go to app.notes. */
   views?: unknown;
+  /** The edits made to the table so far (a restored project's). */
+  edits?: TableEdit[];
   notes?: string[];
 }
 
@@ -200,10 +206,70 @@ export async function useTable(name: string, table: PlainTable, o: UseOptions = 
   app.source = o.source ?? null;
   const notes = [...(o.notes ?? [])];
   if (o.views !== undefined) notes.push(...restoreViews(o.views));
+  app.edits = o.edits ?? [];
   app.notes = notes;
   app.step = o.step ?? 'checks';
+  resetHistory();
   return true;
 }
+
+// ---------------------------------------------------------------------------------------------
+// Editing the table, and undo
+
+/** Check an edited table in the worker and make it current (the views, source and project stay). */
+async function setEditedTable(table: PlainTable): Promise<boolean> {
+  const r = await run<{ findings: Finding[] }>('Checking the table', 'set-table', { table });
+  if (!r) return false;
+  app.table = table;
+  app.findings = r.findings;
+  return true;
+}
+
+/**
+ * Make an edit of the table: `edit` gets a plain copy of the current table to change, and says
+ * what it changed (or throws a message for the user). The edited table is checked again, the
+ * edit is logged in the project, and it becomes one step of undo.
+ */
+export async function editTable(edit: (t: PlainTable) => Omit<TableEdit, 'at'>): Promise<boolean> {
+  if (!app.table) return false;
+  const t = structuredClone($state.snapshot(app.table)) as PlainTable;
+  let e: Omit<TableEdit, 'at'>;
+  try {
+    e = edit(t);
+  } catch (err) {
+    app.error = errorText(err);
+    return false;
+  }
+  return record(e.label, async () => {
+    const ok = await setEditedTable(t);
+    if (ok) app.edits = [...app.edits, { ...e, at: new Date().toISOString() }];
+    return ok;
+  });
+}
+
+setHistoryHost({
+  current: (): Snapshot => ({
+    table: app.table,
+    edits: app.edits,
+    views: snapshotViews(),
+    given: layout.sheets.map((s) => $state.snapshot(s.given) as MappingInput),
+  }),
+  apply: async (s) => {
+    if (s.table !== app.table && s.table) {
+      if (!(await setEditedTable($state.snapshot(s.table) as PlainTable))) return;
+      app.table = s.table;
+    }
+    app.edits = s.edits;
+    restoreViews(s.views);
+    for (const [i, g] of s.given.entries()) {
+      const p = layout.sheets[i];
+      if (p && JSON.stringify($state.snapshot(p.given)) !== JSON.stringify(g)) {
+        p.given = structuredClone(g);
+        await detect(i);
+      }
+    }
+  },
+});
 
 let demoSha: string | undefined;
 
@@ -485,6 +551,7 @@ export function currentWork(): Work {
     source: app.source ? ($state.snapshot(app.source) as SourceInfo) : null,
     readFindings: $state.snapshot(app.readFindings) as Finding[],
     views: snapshotViews(),
+    edits: $state.snapshot(app.edits) as TableEdit[],
     step: app.step === 'layout' ? (app.table ? 'checks' : 'open') : app.step,
     theme: app.theme,
     locale: app.locale,
@@ -559,7 +626,7 @@ async function restoreWork(raw: unknown, extraNotes: string[] = []): Promise<voi
     app.projectName = work.name ?? '';
     setNumberLocale(work.locale || undefined);
     if (work.table) {
-      const ok = await useTable(work.tableName, work.table, { source: work.source, readFindings: work.readFindings, step: (work.step as Step) || 'checks', views: work.views, notes });
+      const ok = await useTable(work.tableName, work.table, { source: work.source, readFindings: work.readFindings, step: (work.step as Step) || 'checks', views: work.views, notes, edits: work.edits ?? [] });
       if (!ok) app.step = 'open';
       else if (store instanceof ProjectStore) await reopenSource(await store.loadSource(), work.source);
       return;
@@ -572,12 +639,14 @@ async function restoreWork(raw: unknown, extraNotes: string[] = []): Promise<voi
 }
 
 function clearTable(): void {
+  app.edits = [];
   app.table = null;
   app.tableName = '';
   app.findings = [];
   app.readFindings = [];
   app.source = null;
   sourceSheet.id = '';
+  resetHistory();
 }
 
 /**
