@@ -13,6 +13,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { mkdtempSync, readFileSync, rmSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
+import { execFileSync } from 'node:child_process';
 import type { Download, Page } from 'playwright-core';
 import Papa from 'papaparse';
 import { inverse as mlInverse, Matrix as MlMatrix } from 'ml-matrix';
@@ -210,6 +211,96 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
     await expect.poll(header).toBe(DEMO);
     await nav('Multipliers');
     expect(await banner.count()).toBe(0);
+  });
+
+  it('undoes and redoes a table edit and a scenario edit, each named, with the buttons and Ctrl+Z / Ctrl+Shift+Z', async () => {
+    // The demo project is open (its one scenario: FOOD, amount 10).
+    await nav('Edit table');
+    await page.getByLabel('Row of the cell').selectOption('s:FOOD');
+    await page.getByLabel('Column of the cell').selectOption('s:HOSP');
+    const now = page.locator('.now output');
+    const table = JSON.parse(readFileSync(join(REPO, 'data-demo/vellan-coast.table.json'), 'utf8')) as PlainTable;
+    const codes = table.sectors.codes;
+    const before = table.Z[codes.indexOf('FOOD')]![codes.indexOf('HOSP')]!;
+    await expect.poll(() => now.textContent()).toBe(String(Number(before.toPrecision(6))));
+    await page.getByLabel('New value').fill('14');
+    await page.getByRole('button', { name: 'Change the cell' }).click();
+    const label = `FOOD → HOSP flow ${Number(before.toPrecision(6))} → 14`;
+    await expect.poll(() => page.locator('ol.edits li').allTextContents()).toEqual([label]);
+    await expect.poll(() => now.textContent()).toBe('14');
+    const undoBtn = page.locator('.history button').first();
+    const redoBtn = page.locator('.history button').nth(1);
+    await expect.poll(() => undoBtn.getAttribute('aria-label')).toBe(`undo: ${label}`);
+    // A scenario edit: the amount 10 → 25.
+    await nav('Scenarios');
+    const value = page.getByLabel(/^Change 1: amount in/);
+    await value.fill('25');
+    await page.locator('#scen-h').click();
+    await expect.poll(() => undoBtn.getAttribute('aria-label')).toMatch(/^undo: scenario '.+' change 1 \(FOOD\) amount 10 → 25$/);
+    await screenshot(page, 'day-undo');
+    // Ctrl+Z: the scenario edit is undone first, then the table edit.
+    await page.keyboard.press('Control+z');
+    await expect.poll(() => value.inputValue()).toBe('10');
+    await expect.poll(() => page.locator('.history .said').textContent()).toMatch(/^Undone: scenario .* amount 10 → 25$/);
+    await expect.poll(() => undoBtn.getAttribute('aria-label')).toBe(`undo: ${label}`);
+    await undoBtn.click();
+    await expect.poll(() => redoBtn.getAttribute('aria-label')).toBe(`redo: ${label}`);
+    await nav('Edit table');
+    await expect.poll(() => page.locator('ol.edits li').count()).toBe(0);
+    await page.getByLabel('Row of the cell').selectOption('s:FOOD');
+    await page.getByLabel('Column of the cell').selectOption('s:HOSP');
+    await expect.poll(() => now.textContent()).toBe(String(Number(before.toPrecision(6))));
+    // Ctrl+Shift+Z redoes the table edit, then the scenario edit.
+    await page.locator('#edit-h').click();
+    await page.keyboard.press('Control+Shift+z');
+    await expect.poll(() => now.textContent()).toBe('14');
+    await page.keyboard.press('Control+Shift+z');
+    await nav('Scenarios');
+    await expect.poll(() => value.inputValue()).toBe('25');
+    // Back to the table as read, for the merge below.
+    await page.locator('#scen-h').click();
+    await page.keyboard.press('Control+z');
+    await page.keyboard.press('Control+z');
+    await expect.poll(() => redoBtn.getAttribute('aria-label')).toMatch(/^redo: FOOD → HOSP/);
+  });
+
+  it('merges sectors into a group with the same multipliers as the command line\'s aggregate', async () => {
+    const conc = join(work, 'groups.csv');
+    const table = JSON.parse(readFileSync(join(REPO, 'data-demo/vellan-coast.table.json'), 'utf8')) as PlainTable;
+    writeFileSync(conc, ['code,group,label', ...table.sectors.codes.map((c) => (c === 'FISH' || c === 'FORE' ? `${c},PRIM,Fishing and forestry` : `${c},${c},`))].join('\n') + '\n');
+    const agg = join(work, 'aggregated.json');
+    const cli = (args: string[]) => execFileSync(process.execPath, [join(REPO, 'bin/ripplewise.mjs'), ...args], { encoding: 'utf8' });
+    cli(['aggregate', join(REPO, 'data-demo/vellan-coast.table.json'), '--concordance', conc, '--out', agg]);
+    const expected = JSON.parse(cli(['multipliers', agg, '--json'])) as { measures: { code: string; sectors: { code: string; simple: number; total?: number }[] }[] };
+    await nav('Edit table');
+    const choose = page.getByRole('group', { name: 'Sectors to merge' });
+    await choose.getByLabel(/^Merge FISH /).check();
+    await choose.getByLabel(/^Merge FORE /).check();
+    await page.getByLabel('Group code').fill('PRIM');
+    await page.getByLabel('Group name').fill('Fishing and forestry');
+    await page.getByRole('button', { name: 'Merge 2 sectors' }).click();
+    await expect.poll(() => page.locator('ol.edits li').allTextContents()).toEqual(['merge FISH + FORE → PRIM']);
+    await nav('Multipliers');
+    await expect.poll(() => page.locator('#mult-table tbody tr').count()).toBe(15);
+    expect(await page.locator('#mult-table tbody').textContent()).toContain('Fishing and forestry');
+    // Every digit: the JSON report's multipliers against the command line's.
+    await nav('Report');
+    const rep = await downloaded(() => page.getByRole('button', { name: 'Download JSON' }).click());
+    const json = JSON.parse(rep.text);
+    expect(json.sections.find((s: { id: string }) => s.id === 'edits').paragraphs).toEqual(['1. merge FISH + FORE → PRIM']);
+    const mt = json.sections.find((s: { kind: string }) => s.kind === 'multipliers').tables[0];
+    const col = (re: RegExp) => mt.columns.findIndex((c: { key: string }) => re.test(c.key));
+    const out = expected.measures.find((m) => m.code === 'output')!;
+    expect(mt.rows.length).toBe(out.sectors.length);
+    for (const s of out.sectors) {
+      const row = mt.rows.find((x: unknown[]) => x[0] === s.code);
+      expect(Math.abs(row[col(/simple/i)] - s.simple), s.code).toBeLessThan(1e-9);
+      if (s.total !== undefined && col(/^total/i) >= 0) expect(Math.abs(row[col(/^total/i)] - s.total), s.code).toBeLessThan(1e-9);
+    }
+    // Undo splits the group back.
+    await page.locator('.history button').first().click();
+    await nav('Multipliers');
+    await expect.poll(() => page.locator('#mult-table tbody tr').count()).toBe(16);
   });
 
   it('folds the steps behind a button at 800 px and shows them again at 1440 px', async () => {

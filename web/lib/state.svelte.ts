@@ -25,13 +25,14 @@ import { setNumberLocale } from './numbers';
 import { record, resetHistory, setHistoryHost } from './history.svelte';
 import type { Snapshot, TableEdit } from './history.svelte';
 
-export type Step = 'open' | 'projects' | 'layout' | 'checks' | 'coefficients' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'report';
+export type Step = 'open' | 'projects' | 'layout' | 'checks' | 'edit' | 'coefficients' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'report';
 
 export const STEPS: { id: Step; label: string }[] = [
   { id: 'open', label: 'Open' },
   { id: 'projects', label: 'Projects' },
   { id: 'layout', label: 'Layout' },
   { id: 'checks', label: 'Checks' },
+  { id: 'edit', label: 'Edit table' },
   { id: 'coefficients', label: 'Coefficients' },
   { id: 'multipliers', label: 'Multipliers' },
   { id: 'linkages', label: 'Linkages' },

@@ -15,6 +15,7 @@ import SensitivityPanel from './SensitivityPanel.svelte';
 import LayoutPanel from './LayoutPanel.svelte';
 import ReportPanel from './ReportPanel.svelte';
 import ProjectsPanel from './ProjectsPanel.svelte';
+import EditPanel from './EditPanel.svelte';
 
 export const panels: Partial<Record<Step, Component>> = {
   open: OpenPanel,
@@ -28,4 +29,5 @@ export const panels: Partial<Record<Step, Component>> = {
   sensitivity: SensitivityPanel,
   report: ReportPanel,
   projects: ProjectsPanel,
+  edit: EditPanel,
 };

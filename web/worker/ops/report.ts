@@ -9,7 +9,7 @@ import { checkScenario, impacts, linkages, multipliers, resolveScenario, sectorI
 import type { Impact, ResultTarget, Scenario } from '../../../engine/index';
 import { writeScenarios } from '../../../src/project/scenarios';
 import type { ReportInputFile, ReportSetting, Section } from '../../../src/report/model';
-import { buildReport, checksSection, comparisonSection, linkagesSection, modelAssumptions, multipliersSection, scenarioSection, setting, tornadoSection } from '../../../src/report/model';
+import { buildReport, checksSection, comparisonSection, linkagesSection, modelAssumptions, multipliersSection, scenarioSection, setting, textSection, tornadoSection } from '../../../src/report/model';
 import type { Report } from '../../../src/report/model';
 import { digestHex } from '../../../src/report/sha256';
 import type { ReportFormat } from '../../../src/report/write';
@@ -36,6 +36,8 @@ export interface ReportRequest {
   /** Settings of the workbench to state in the report (layout mapping, kind of table...). */
   settings?: ReportSetting[];
   createdAt?: string;
+  /** The edits made to the table in the workbench since it was read, one line each. */
+  edits?: string[];
 }
 
 /** The report's formats, and the tidy CSV of the impacts (src/report/tidy-csv.ts). */
@@ -122,6 +124,10 @@ export async function buildWorkbenchReport(req: ReportRequest, keep: { impacts?:
     settings.push(setting('tornado', 'Sensitivity tornado', what, o.sector || o.scenario ? 'given' : 'default'), setting('tornadoPercent', 'Tornado swing (%)', percent, o.percent !== undefined ? 'given' : 'default'), setting('tornadoTop', 'Tornado coefficients', top, o.top !== undefined ? 'given' : 'default'));
   } else settings.push(setting('tornado', 'Sensitivity tornado', 'off', 'given'));
 
+  if (req.edits?.length) {
+    sections.push(textSection('edits', 'Edits to the table', 'Cells and details changed in the workbench after the table was read from its source, in order.', req.edits.map((e, k) => `${k + 1}. ${e}`)));
+    settings.push(setting('edits', 'Edits to the table after reading', req.edits.length, 'given', 'Listed in the section Edits to the table'));
+  }
   const checks = [...(req.readFindings ?? []), ...s.findings];
   sections.push(checksSection(checks, { condition: openModel().condition() }));
 
