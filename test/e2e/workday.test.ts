@@ -230,21 +230,21 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
     await expect.poll(() => now.textContent()).toBe('14');
     const undoBtn = page.locator('.history button').first();
     const redoBtn = page.locator('.history button').nth(1);
-    await expect.poll(() => undoBtn.getAttribute('aria-label')).toBe(`undo: ${label}`);
+    await expect.poll(() => undoBtn.getAttribute('title')).toBe(`undo: ${label} (Ctrl+Z)`);
     // A scenario edit: the amount 10 → 25.
     await nav('Scenarios');
     const value = page.getByLabel(/^Change 1: amount in/);
     await value.fill('25');
     await page.locator('#scen-h').click();
-    await expect.poll(() => undoBtn.getAttribute('aria-label')).toMatch(/^undo: scenario '.+' change 1 \(FOOD\) amount 10 → 25$/);
+    await expect.poll(() => undoBtn.getAttribute('title')).toMatch(/^undo: scenario '.+' change 1 \(FOOD\) amount 10 → 25 \(Ctrl\+Z\)$/);
     await screenshot(page, 'day-undo');
     // Ctrl+Z: the scenario edit is undone first, then the table edit.
     await page.keyboard.press('Control+z');
     await expect.poll(() => value.inputValue()).toBe('10');
     await expect.poll(() => page.locator('.history .said').textContent()).toMatch(/^Undone: scenario .* amount 10 → 25$/);
-    await expect.poll(() => undoBtn.getAttribute('aria-label')).toBe(`undo: ${label}`);
+    await expect.poll(() => undoBtn.getAttribute('title')).toBe(`undo: ${label} (Ctrl+Z)`);
     await undoBtn.click();
-    await expect.poll(() => redoBtn.getAttribute('aria-label')).toBe(`redo: ${label}`);
+    await expect.poll(() => redoBtn.getAttribute('title')).toBe(`redo: ${label} (Ctrl+Shift+Z)`);
     await nav('Edit table');
     await expect.poll(() => page.locator('ol.edits li').count()).toBe(0);
     await page.getByLabel('Row of the cell').selectOption('s:FOOD');
@@ -261,7 +261,7 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
     await page.locator('#scen-h').click();
     await page.keyboard.press('Control+z');
     await page.keyboard.press('Control+z');
-    await expect.poll(() => redoBtn.getAttribute('aria-label')).toMatch(/^redo: FOOD → HOSP/);
+    await expect.poll(() => redoBtn.getAttribute('title')).toMatch(/^redo: FOOD → HOSP/);
   });
 
   it('merges sectors into a group with the same multipliers as the command line\'s aggregate', async () => {
