@@ -20,6 +20,7 @@ import { inverse as mlInverse, Matrix as MlMatrix } from 'ml-matrix';
 import { checks, makeTable } from '../../engine/index';
 import type { PlainTable } from '../../engine/index';
 import { readTableFile } from '../../src/io/index';
+import { readScenarios } from '../../src/project/scenarios';
 import type { Browser, Served } from './helpers';
 import { buildSite, launch, REPO, requireChromium, screenshot, serveSite } from './helpers';
 
@@ -301,6 +302,38 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
     await page.locator('.history button').first().click();
     await nav('Multipliers');
     await expect.poll(() => page.locator('#mult-table tbody tr').count()).toBe(16);
+  });
+
+  it('imports the command line\'s scenarios file and exports one that reads back the same and that the command line takes', async () => {
+    const demoFile = join(REPO, 'data-demo/scenarios.json');
+    const original = readScenarios(readFileSync(demoFile, 'utf8'), 'scenarios.json');
+    await nav('Projects');
+    await page.getByRole('button', { name: 'New empty project' }).click();
+    await nav('Open');
+    await page.getByRole('button', { name: 'Open the demo economy' }).click();
+    await expect.poll(header).toBe(DEMO);
+    await nav('Scenarios');
+    await expect.poll(() => page.locator('.pick').count()).toBe(0);
+    await page.getByLabel('Import a scenarios file').setInputFiles(demoFile);
+    await expect.poll(() => page.locator('.pick').count()).toBe(original.length);
+    await expect.poll(() => page.locator('.pick small', { hasText: 'ready' }).count()).toBe(original.length);
+    const exported = await downloaded(() => page.getByRole('button', { name: 'Export the scenarios file' }).click());
+    expect(exported.d.suggestedFilename()).toBe('scenarios.json');
+    expect(readScenarios(exported.text, 'exported.json')).toEqual(original);
+    // The command line reads the exported file and gives the same impacts as from its own.
+    const path = join(work, 'exported-scenarios.json');
+    writeFileSync(path, exported.text);
+    const cli = (f: string) => JSON.parse(execFileSync(process.execPath, [join(REPO, 'bin/ripplewise.mjs'), 'impact', join(REPO, 'data-demo/vellan-coast.table.json'), '--scenario', f, '--json'], { encoding: 'utf8' }));
+    const a = cli(demoFile);
+    const b = cli(path);
+    delete a.file, delete b.file, delete a.sha256, delete b.sha256;
+    expect(JSON.stringify(b.scenarios ?? b.impacts ?? b)).toBe(JSON.stringify(a.scenarios ?? a.impacts ?? a));
+    // A file that is not a scenarios file is refused with its name, and nothing is lost.
+    const bad = join(work, 'not-scenarios.json');
+    writeFileSync(bad, '{"format":"something-else"}');
+    await page.getByLabel('Import a scenarios file').setInputFiles(bad);
+    await expect.poll(() => page.locator('main > .error[role="alert"]').textContent()).toMatch(/not-scenarios\.json/);
+    expect(await page.locator('.pick').count()).toBe(original.length);
   });
 
   it('folds the steps behind a button at 800 px and shows them again at 1440 px', async () => {
