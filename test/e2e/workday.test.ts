@@ -97,6 +97,14 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
   it('opens the demo as the first project, listed with its table, last change and size', async () => {
     await page.goto(served.url);
     await expect.poll(header, { timeout: 20_000 }).toBe(DEMO);
+    // The first-visit guide: two ways on, and one line per step.
+    const guide = page.getByRole('complementary', { name: 'Welcome to Ripplewise' });
+    await guide.waitFor();
+    expect(await guide.locator('li').count()).toBeGreaterThanOrEqual(4);
+    await screenshot(page, 'day-guide');
+    await guide.getByRole('button', { name: 'Explore the demo' }).click();
+    await page.locator('#mult-table').waitFor();
+    expect(await guide.count()).toBe(0);
     await saved();
     await nav('Projects');
     const rows = page.locator('table.projects tbody tr');
@@ -151,6 +159,8 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
   it('after a reload the project is back with its source file: a finding still shows its cell', async () => {
     await page.reload();
     await expect.poll(header, { timeout: 20_000 }).toBe('coast-edited.csv');
+    // The guide, once dismissed, never returns.
+    expect(await page.locator('.guide').count()).toBe(0);
     await nav('Checks');
     const r = await readTableFile(new Uint8Array(readFileSync(csvPath)), { file: 'coast-edited.csv' });
     const cell = [...r.findings, ...checks(r.table)].find((f) => f.code === 'total-mismatch')!.where!.cell!;

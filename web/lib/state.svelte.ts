@@ -79,6 +79,8 @@ export const app = $state({
   storageNote: '' as string,
   /** True once startup is done (the autosave restored, or the demo opened). */
   ready: false,
+  /** True on a first visit (nothing kept in this browser): the guide may show. */
+  firstVisit: false,
 });
 
 /** The projects kept in this browser (the list is read again after each save). */
@@ -676,7 +678,10 @@ export async function startup(s?: WorkStore): Promise<void> {
     if (projects.list.length) {
       // Projects are kept but the current one is gone: show the list rather than the demo.
       app.step = 'projects';
-    } else await openDemo();
+    } else {
+      app.firstVisit = true;
+      await openDemo();
+    }
   }
   if (app.autosave === 'off') app.autosave = 'saved';
   app.ready = true;
