@@ -8,7 +8,8 @@
 import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it, vi } from 'vitest';
-import { memoryKV, ProjectStore, WORK_VERSION } from '../../web/lib/persist';
+import { memoryKV, ProjectStore, projectText, WORK_VERSION, workFromProject } from '../../web/lib/persist';
+import { readProject } from '../../src/project/project';
 import type { Work } from '../../web/lib/persist';
 import { defaultViews, loadScenarios, demoScenarioList, viewState } from '../../web/lib/views.svelte';
 import { readTableFile } from '../../src/io/index';
@@ -72,6 +73,17 @@ describe('ProjectStore', () => {
     };
     await expect(s.save(work('bigger'))).rejects.toThrow(/quota/);
     expect(((await s.load()) as Work).tableName).toBe('big');
+  });
+});
+
+describe('the edit log in a project file', () => {
+  it('travels in the settings of src/project\'s file and comes back as it was', () => {
+    const table = JSON.parse(readFileSync(join(REPO, 'data-demo/vellan-coast.table.json'), 'utf8'));
+    const edits = [{ kind: 'flow' as const, label: 'FOOD → HOSP flow 12.3 → 14', row: 'FOOD', col: 'HOSP', before: 12.3, after: 14, at: '2026-01-01T00:00:00.000Z' }];
+    const text = projectText({ ...work('demo'), table, edits }, [], { name: 'ripplewise', version: 't' });
+    const back = workFromProject(readProject(text, 'p.json'), 'p.json', []);
+    expect(back.edits).toEqual(edits);
+    expect(back.notes).toEqual([]);
   });
 });
 

@@ -244,9 +244,11 @@ export function settingsToViews(settings: Record<string, SettingValue>, drafts: 
 }
 
 /** The project file's text for a piece of work: src/project's writeProject. */
-export function projectText(w: Pick<Work, 'table' | 'tableName' | 'source' | 'views' | 'theme' | 'locale'>, scenarios: Scenario[], tool: { name: string; version: string }, savedAt?: string): string {
+export function projectText(w: Pick<Work, 'table' | 'tableName' | 'source' | 'views' | 'theme' | 'locale' | 'edits'>, scenarios: Scenario[], tool: { name: string; version: string }, savedAt?: string): string {
   if (!w.table) throw new Error('there is no table to save yet: open a file or the demo first');
   const settings: Record<string, SettingValue> = { 'workbench.tableName': w.tableName, 'workbench.theme': w.theme, 'workbench.locale': w.locale, ...viewsToSettings(w.views) };
+  // The edits made in the workbench, so that a report made from the project still lists them.
+  if (w.edits?.length) settings['workbench.edits:json'] = JSON.stringify(w.edits);
   const s = w.source;
   let source: ProjectSource | undefined;
   if (s) {
@@ -264,7 +266,7 @@ export function projectText(w: Pick<Work, 'table' | 'tableName' | 'source' | 'vi
 }
 
 /** What a project gives back to the workbench (the views' snapshot to be restored with restoreViews). */
-export function workFromProject(p: Project, fileName: string, drafts: DraftScenario[]): { tableName: string; table: PlainTable; source: SourceInfo; theme?: Work['theme']; locale?: string; snapshot: Record<string, unknown>; notes: string[] } {
+export function workFromProject(p: Project, fileName: string, drafts: DraftScenario[]): { tableName: string; table: PlainTable; source: SourceInfo; theme?: Work['theme']; locale?: string; edits: TableEdit[]; snapshot: Record<string, unknown>; notes: string[] } {
   const { snapshot, notes } = settingsToViews(p.settings, drafts);
   const st = p.settings;
   const src: SourceInfo = { kind: 'project', name: p.source?.name ?? fileName, sha256: p.source?.sha256 ?? '' };
@@ -282,9 +284,19 @@ export function workFromProject(p: Project, fileName: string, drafts: DraftScena
     tableName: typeof st['workbench.tableName'] === 'string' && st['workbench.tableName'] ? st['workbench.tableName'] : (p.table.meta?.title ?? fileName),
     table: p.table,
     source: src,
+    edits: [],
     snapshot,
     notes,
   };
+  const ed = st['workbench.edits:json'];
+  if (typeof ed === 'string') {
+    try {
+      const list = JSON.parse(ed) as unknown;
+      if (Array.isArray(list)) out.edits = list.filter((e): e is TableEdit => isObj(e) && typeof e.label === 'string');
+    } catch {
+      notes.push('setting workbench.edits:json: not valid JSON; the list of edits was left out');
+    }
+  }
   const th = st['workbench.theme'];
   if (th === 'light' || th === 'dark' || th === 'system') out.theme = th;
   if (typeof st['workbench.locale'] === 'string') out.locale = st['workbench.locale'];

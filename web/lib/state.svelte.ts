@@ -490,7 +490,7 @@ export async function applyProject(p: Project, fileName: string, o: { newProject
   const drafts = p.scenarios.map((s) => draftOf(s));
   const w = workFromProject(p, fileName, drafts);
   sourceSheet.id = '';
-  const ok = await useTable(w.tableName, w.table, { source: w.source, views: w.snapshot, notes: w.notes, sourceFile: null, ...o });
+  const ok = await useTable(w.tableName, w.table, { source: w.source, views: w.snapshot, notes: w.notes, edits: w.edits, sourceFile: null, ...o });
   if (!ok) return;
   if (w.theme) app.theme = w.theme;
   if (w.locale !== undefined) app.locale = w.locale;
@@ -506,6 +506,7 @@ export function currentProjectText(): string {
       views: snapshotViews(),
       theme: app.theme,
       locale: app.locale,
+      edits: $state.snapshot(app.edits) as TableEdit[],
     },
     scenariosForProject(),
     { ...TOOL },
