@@ -346,6 +346,27 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
     expect(await page.locator('.pick').count()).toBe(original.length);
   });
 
+  it('shows the Leontief inverse as a heat map and a searchable table whose cells are explained, as ml-matrix gives them', async () => {
+    await nav('Leontief inverse');
+    await page.locator('#inv-table tbody tr').first().waitFor();
+    expect(await page.locator('#inv-h ~ figure, #inv-h ~ * svg, #inv-h ~ * canvas').count()).toBeGreaterThan(0);
+    await page.getByLabel('Find a sector (code or name)').fill('HOSP');
+    const table = makeTable(JSON.parse(readFileSync(join(REPO, 'data-demo/vellan-coast.table.json'), 'utf8')) as PlainTable);
+    const n = table.x.length;
+    // Every cell with HOSP as producer or as the demand: 2n − 1.
+    await expect.poll(() => page.locator('#inv-table tbody tr').count()).toBe(2 * n - 1);
+    const M = new MlMatrix(n, n);
+    for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) M.set(i, j, (i === j ? 1 : 0) - table.Z.data[i * n + j]! / table.x[j]!);
+    const L = mlInverse(M);
+    const h = table.sectors.codes.indexOf('HOSP');
+    const f = table.sectors.codes.indexOf('FOOD');
+    const row = page.locator('#inv-table tbody tr').filter({ has: page.locator('th', { hasText: /^FOOD$/ }) }).filter({ has: page.locator('td', { hasText: /^HOSP$/ }) });
+    const cells = await row.locator('td').allTextContents();
+    expect(Math.abs(Number(cells[1]!.replace(/,/g, '')) - L.get(f, h))).toBeLessThan(5e-5);
+    expect(cells[2]).toMatch(/^per 1 EUR millions more of final demand for .+ \(HOSP\), .+ \(FOOD\) produces [\d.]+ EUR millions more$/);
+    await screenshot(page, 'day-inverse');
+  });
+
   it('folds the steps behind a button at 800 px and shows them again at 1440 px', async () => {
     await page.setViewportSize({ width: 800, height: 900 });
     const toggle = page.locator('.nav-toggle');

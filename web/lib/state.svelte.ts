@@ -25,7 +25,7 @@ import { setNumberLocale } from './numbers';
 import { record, resetHistory, setHistoryHost } from './history.svelte';
 import type { Snapshot, TableEdit } from './history.svelte';
 
-export type Step = 'open' | 'projects' | 'layout' | 'checks' | 'edit' | 'coefficients' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'report';
+export type Step = 'open' | 'projects' | 'layout' | 'checks' | 'edit' | 'coefficients' | 'inverse' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'report';
 
 export const STEPS: { id: Step; label: string }[] = [
   { id: 'open', label: 'Open' },
@@ -34,6 +34,7 @@ export const STEPS: { id: Step; label: string }[] = [
   { id: 'checks', label: 'Checks' },
   { id: 'edit', label: 'Edit table' },
   { id: 'coefficients', label: 'Coefficients' },
+  { id: 'inverse', label: 'Leontief inverse' },
   { id: 'multipliers', label: 'Multipliers' },
   { id: 'linkages', label: 'Linkages' },
   { id: 'scenarios', label: 'Scenarios' },

@@ -16,6 +16,7 @@ import LayoutPanel from './LayoutPanel.svelte';
 import ReportPanel from './ReportPanel.svelte';
 import ProjectsPanel from './ProjectsPanel.svelte';
 import EditPanel from './EditPanel.svelte';
+import LeontiefPanel from './LeontiefPanel.svelte';
 
 export const panels: Partial<Record<Step, Component>> = {
   open: OpenPanel,
@@ -30,4 +31,5 @@ export const panels: Partial<Record<Step, Component>> = {
   report: ReportPanel,
   projects: ProjectsPanel,
   edit: EditPanel,
+  inverse: LeontiefPanel,
 };

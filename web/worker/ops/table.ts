@@ -20,6 +20,14 @@ export const tableOps: Record<string, Handler> = {
     return { codes: s.table.sectors.codes, values: Array.from(om) };
   },
 
+  /** The Leontief inverse L = (I − A)⁻¹ of the open model (a copy, transferred; the model keeps its own). */
+  'leontief-inverse': (_args, ctx) => {
+    const L = openModel().inverse();
+    const data = Float64Array.from(L.data);
+    ctx.transfer(data.buffer as ArrayBuffer);
+    return { rows: L.rows, cols: L.cols, data };
+  },
+
   /** The technical coefficients A, for the heat map (the buffer is transferred, not copied). */
   coefficients: (_args, ctx) => {
     const s = current();
