@@ -367,6 +367,23 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
     await screenshot(page, 'day-inverse');
   });
 
+  it('prints the current view without the controls (print stylesheet), from a Print button', async () => {
+    expect(await page.getByRole('button', { name: 'Print' }).count()).toBe(1);
+    await nav('Multipliers');
+    await page.locator('#mult-table').waitFor();
+    await page.emulateMedia({ media: 'print' });
+    expect(await page.getByRole('navigation').isVisible()).toBe(false);
+    expect(await page.getByRole('button', { name: 'Save project' }).isVisible()).toBe(false);
+    expect(await page.locator('main h2').first().isVisible()).toBe(true);
+    expect(await page.locator('#mult-table').isVisible()).toBe(true);
+    expect(await page.getByRole('complementary', { name: 'Cautions' }).first().isVisible()).toBe(true);
+    const pdf = await page.pdf({ format: 'A4' });
+    expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
+    writeFileSync(join(work, 'multipliers.pdf'), pdf);
+    await page.emulateMedia({ media: 'screen' });
+    expect(await page.getByRole('navigation').isVisible()).toBe(true);
+  });
+
   it('folds the steps behind a button at 800 px and shows them again at 1440 px', async () => {
     await page.setViewportSize({ width: 800, height: 900 });
     const toggle = page.locator('.nav-toggle');
