@@ -201,6 +201,39 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
     }
   });
 
+  it('puts two projects side by side: output multipliers and their differences, as ml-matrix gives them', async () => {
+    await nav('Compare projects');
+    const pick = page.getByLabel('Project to compare with');
+    const option = (await pick.locator('option').allTextContents()).find((o) => o.includes('coast-edited.csv'))!;
+    await pick.selectOption({ label: option });
+    await page.locator('#cmp-table tbody tr').first().waitFor();
+    const mult = (t: { x: Float64Array; Z: { data: Float64Array } }) => {
+      const n = t.x.length;
+      const M = new MlMatrix(n, n);
+      for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) M.set(i, j, (i === j ? 1 : 0) - t.Z.data[i * n + j]! / t.x[j]!);
+      const L = mlInverse(M);
+      return Array.from({ length: n }, (_, j) => Array.from({ length: n }, (_, i) => L.get(i, j)).reduce((a, b) => a + b, 0));
+    };
+    const demo = makeTable(JSON.parse(readFileSync(join(REPO, 'data-demo/vellan-coast.table.json'), 'utf8')) as PlainTable);
+    const edited = (await readTableFile(new Uint8Array(readFileSync(csvPath)), { file: 'coast-edited.csv' })).table;
+    const a = mult(demo);
+    const bm = mult(edited);
+    const rows = page.locator('#cmp-table tbody tr');
+    expect(await rows.count()).toBe(demo.sectors.codes.length);
+    const num = (t: string) => Number(t.replace(/,/g, ''));
+    let differs = 0;
+    for (const [k, code] of demo.sectors.codes.entries()) {
+      const cells = await rows.filter({ has: page.locator('th', { hasText: new RegExp(`^${code}$`) }) }).locator('td').allTextContents();
+      expect(Math.abs(num(cells[1]!) - a[k]!), code).toBeLessThan(5e-5);
+      const j = edited.sectors.codes.indexOf(code);
+      expect(Math.abs(num(cells[2]!) - bm[j]!), code).toBeLessThan(5e-5);
+      expect(Math.abs(num(cells[3]!) - (a[k]! - bm[j]!)), code).toBeLessThan(1e-4);
+      if (Math.abs(a[k]! - bm[j]!) > 1e-4) differs++;
+    }
+    expect(differs).toBeGreaterThan(0);
+    await screenshot(page, 'day-compare');
+  });
+
   it('shows the failed-checks banner on every view of a failing table, with a way to the checks', async () => {
     await nav('Open');
     await fileInput().setInputFiles(failingPath);

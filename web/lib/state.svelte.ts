@@ -25,7 +25,7 @@ import { setNumberLocale } from './numbers';
 import { record, resetHistory, setHistoryHost } from './history.svelte';
 import type { Snapshot, TableEdit } from './history.svelte';
 
-export type Step = 'open' | 'projects' | 'layout' | 'checks' | 'edit' | 'coefficients' | 'inverse' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'report';
+export type Step = 'open' | 'projects' | 'layout' | 'checks' | 'edit' | 'coefficients' | 'inverse' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'compare' | 'report';
 
 export const STEPS: { id: Step; label: string }[] = [
   { id: 'open', label: 'Open' },
@@ -40,6 +40,7 @@ export const STEPS: { id: Step; label: string }[] = [
   { id: 'scenarios', label: 'Scenarios' },
   { id: 'results', label: 'Results' },
   { id: 'sensitivity', label: 'Sensitivity' },
+  { id: 'compare', label: 'Compare projects' },
   { id: 'report', label: 'Report' },
 ];
 

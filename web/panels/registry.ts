@@ -17,6 +17,7 @@ import ReportPanel from './ReportPanel.svelte';
 import ProjectsPanel from './ProjectsPanel.svelte';
 import EditPanel from './EditPanel.svelte';
 import LeontiefPanel from './LeontiefPanel.svelte';
+import ComparePanel from './ComparePanel.svelte';
 
 export const panels: Partial<Record<Step, Component>> = {
   open: OpenPanel,
@@ -32,4 +33,5 @@ export const panels: Partial<Record<Step, Component>> = {
   projects: ProjectsPanel,
   edit: EditPanel,
   inverse: LeontiefPanel,
+  compare: ComparePanel,
 };
