@@ -417,6 +417,22 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
     expect(await page.getByRole('navigation').isVisible()).toBe(true);
   });
 
+  it('shows each scenario across all measures as small multiples, with a legend and each total', async () => {
+    // The demo project now holds the command line's three scenarios (imported above).
+    await nav('Results');
+    const fig = page.locator('figure.multiples');
+    await fig.waitFor();
+    expect(await fig.locator('.legend li').allTextContents()).toEqual(['Direct', 'Indirect', 'Induced']);
+    const measures = await fig.locator('thead th').count();
+    expect(measures).toBeGreaterThan(3);
+    const rows = fig.locator('tbody tr');
+    expect(await rows.count()).toBe(3);
+    // Each cell names its scenario, measure and total; the output total of the first scenario is in the totals table too.
+    const label = await rows.first().locator('svg').first().getAttribute('aria-label');
+    expect(label).toMatch(/^.+, Output: total [\d.,-]+ .+ \(direct .+, indirect .+, induced .+\)$/);
+    await screenshot(page, 'day-small-multiples');
+  });
+
   it('folds the steps behind a button at 800 px and shows them again at 1440 px', async () => {
     await page.setViewportSize({ width: 800, height: 900 });
     const toggle = page.locator('.nav-toggle');
