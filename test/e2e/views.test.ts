@@ -210,8 +210,10 @@ describe.skipIf(!chromium)('the model views in Chromium', () => {
     await page.getByRole('application').locator('canvas').waitFor({ timeout: 20_000 });
     expect(await page.getByRole('application').locator('svg').count()).toBe(0);
     expect(await page.getByText('400 × 400 coefficients, drawn on a canvas.').count()).toBe(1);
+    // The map may start below the fold (a banner or the header's second line above it): bring it into view first.
+    await page.getByRole('application').scrollIntoViewIfNeeded();
     const box = (await page.getByRole('application').boundingBox())!;
-    await page.mouse.move(box.x + 300, box.y + 300);
+    await page.mouse.move(box.x + Math.min(300, box.width / 2), box.y + Math.min(300, box.height / 2));
     await page.mouse.wheel(0, -500);
     await expect.poll(() => page.locator('.tools .muted').textContent()).not.toMatch(/Zoom 1\.0×/);
     await screenshot(page, 'views-coefficients-400');

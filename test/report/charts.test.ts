@@ -55,5 +55,7 @@ describe('charts', () => {
     }
     expect(charts[1]!.svg).toContain('Key sectors');
     expect(charts[3]!.svg).toContain('&lt;p50&gt;');
+    // The histogram's y axis has its title along the axis (rotated), as the x axis has its unit.
+    expect(charts[3]!.svg).toMatch(/<text[^>]*transform="rotate\(-90 12 [\d.]+\)"[^>]*>Draws \(count\)<\/text>/);
   });
 });

@@ -18,23 +18,29 @@ import type { SymmetricKind } from '../worker/ops/symmetric';
 import { version } from '../../package.json';
 import { EngineClient } from './engine-client';
 import { DEMO_NAME, demoTable } from './demo';
-import { checkWork, Debouncer, idbStore, memoryStore, projectText, WORK_VERSION, workFromProject } from './persist';
-import type { SourceInfo, Work, WorkStore } from './persist';
+import { checkWork, Debouncer, idbKV, isQuotaError, memoryStore, ProjectStore, projectText, WORK_VERSION, workFromProject } from './persist';
+import type { ProjectSummary, SourceFile, SourceInfo, Work, WorkStore } from './persist';
 import { defaultViews, draftOf, restoreViews, scenariosForProject, snapshotViews } from './views.svelte';
 import { setNumberLocale } from './numbers';
+import { record, resetHistory, setHistoryHost } from './history.svelte';
+import type { Snapshot, TableEdit } from './history.svelte';
 
-export type Step = 'open' | 'layout' | 'checks' | 'coefficients' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'report';
+export type Step = 'open' | 'projects' | 'layout' | 'checks' | 'edit' | 'coefficients' | 'inverse' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'compare' | 'report';
 
 export const STEPS: { id: Step; label: string }[] = [
   { id: 'open', label: 'Open' },
+  { id: 'projects', label: 'Projects' },
   { id: 'layout', label: 'Layout' },
   { id: 'checks', label: 'Checks' },
+  { id: 'edit', label: 'Edit table' },
   { id: 'coefficients', label: 'Coefficients' },
+  { id: 'inverse', label: 'Leontief inverse' },
   { id: 'multipliers', label: 'Multipliers' },
   { id: 'linkages', label: 'Linkages' },
   { id: 'scenarios', label: 'Scenarios' },
   { id: 'results', label: 'Results' },
   { id: 'sensitivity', label: 'Sensitivity' },
+  { id: 'compare', label: 'Compare projects' },
   { id: 'report', label: 'Report' },
 ];
 
@@ -63,11 +69,24 @@ export const app = $state({
   theme: 'system' as 'system' | 'light' | 'dark',
   /** '' for the browser's locale. */
   locale: '' as string,
-  /** 'off' until the autosave is read; then 'saved', 'pending' or 'unavailable'. */
-  autosave: 'off' as 'off' | 'saved' | 'pending' | 'unavailable' | 'failed',
+  /** 'off' until the autosave is read; then 'saved', 'pending' or 'unavailable'; 'full' when the browser's storage is full. */
+  autosave: 'off' as 'off' | 'saved' | 'pending' | 'unavailable' | 'failed' | 'full',
+  /** The current project's own name ('' shows the table's name). */
+  projectName: '' as string,
+  /** Whether opening a file starts a new project (the default) or replaces the current one's table. */
+  openInto: 'new' as 'new' | 'replace',
+  /** The edits made to the table since it was read (the project keeps them; a report lists them). */
+  edits: [] as TableEdit[],
+  /** A note about the browser's storage (eviction, the source file not kept). */
+  storageNote: '' as string,
   /** True once startup is done (the autosave restored, or the demo opened). */
   ready: false,
+  /** True on a first visit (nothing kept in this browser): the guide may show. */
+  firstVisit: false,
 });
+
+/** The projects kept in this browser (the list is read again after each save). */
+export const projects = $state({ list: [] as ProjectSummary[], current: '' as string });
 
 /** One file waiting for its layout to be confirmed. */
 export interface PendingSheet {
@@ -158,11 +177,17 @@ export async function run<T>(label: string, op: string, args: unknown, transfer?
 }
 
 interface UseOptions {
+  /** Start a new project for this table (opening a file), unless the user chose to replace the current one. */
+  newProject?: boolean;
+  /** The source file's bytes, kept with the project (a sheet's, so that findings can show their cells after a reload). */
+  sourceFile?: SourceFile | null;
   source?: SourceInfo | null;
   readFindings?: Finding[];
   step?: Step;
   /** A views snapshot to restore (autosave or project); its notes go to app.notes. */
   views?: unknown;
+  /** The edits made to the table so far (a restored project's). */
+  edits?: TableEdit[];
   notes?: string[];
 }
 
@@ -170,6 +195,15 @@ interface UseOptions {
 export async function useTable(name: string, table: PlainTable, o: UseOptions = {}): Promise<boolean> {
   const r = await run<{ findings: Finding[] }>('Checking the table', 'set-table', { table });
   if (!r) return false;
+  if (o.newProject && app.openInto === 'new' && app.table && store instanceof ProjectStore) {
+    // The work so far stays in its project; this table starts one of its own.
+    await saver.flush();
+    await store.create();
+    projects.current = store.current;
+    app.projectName = '';
+    if (o.views === undefined) restoreViews(defaultViews());
+  }
+  if (o.sourceFile !== undefined) pendingSource = o.sourceFile;
   app.table = table;
   app.tableName = name;
   app.findings = r.findings;
@@ -177,18 +211,78 @@ export async function useTable(name: string, table: PlainTable, o: UseOptions = 
   app.source = o.source ?? null;
   const notes = [...(o.notes ?? [])];
   if (o.views !== undefined) notes.push(...restoreViews(o.views));
+  app.edits = o.edits ?? [];
   app.notes = notes;
   app.step = o.step ?? 'checks';
+  resetHistory();
   return true;
 }
+
+// ---------------------------------------------------------------------------------------------
+// Editing the table, and undo
+
+/** Check an edited table in the worker and make it current (the views, source and project stay). */
+async function setEditedTable(table: PlainTable): Promise<boolean> {
+  const r = await run<{ findings: Finding[] }>('Checking the table', 'set-table', { table });
+  if (!r) return false;
+  app.table = table;
+  app.findings = r.findings;
+  return true;
+}
+
+/**
+ * Make an edit of the table: `edit` gets a plain copy of the current table to change, and says
+ * what it changed (or throws a message for the user). The edited table is checked again, the
+ * edit is logged in the project, and it becomes one step of undo.
+ */
+export async function editTable(edit: (t: PlainTable) => Omit<TableEdit, 'at'>): Promise<boolean> {
+  if (!app.table) return false;
+  const t = structuredClone($state.snapshot(app.table)) as PlainTable;
+  let e: Omit<TableEdit, 'at'>;
+  try {
+    e = edit(t);
+  } catch (err) {
+    app.error = errorText(err);
+    return false;
+  }
+  return record(e.label, async () => {
+    const ok = await setEditedTable(t);
+    if (ok) app.edits = [...app.edits, { ...e, at: new Date().toISOString() }];
+    return ok;
+  });
+}
+
+setHistoryHost({
+  current: (): Snapshot => ({
+    table: app.table,
+    edits: app.edits,
+    views: snapshotViews(),
+    given: layout.sheets.map((s) => $state.snapshot(s.given) as MappingInput),
+  }),
+  apply: async (s) => {
+    if (s.table !== app.table && s.table) {
+      if (!(await setEditedTable($state.snapshot(s.table) as PlainTable))) return;
+      app.table = s.table;
+    }
+    app.edits = s.edits;
+    restoreViews(s.views);
+    for (const [i, g] of s.given.entries()) {
+      const p = layout.sheets[i];
+      if (p && JSON.stringify($state.snapshot(p.given)) !== JSON.stringify(g)) {
+        p.given = structuredClone(g);
+        await detect(i);
+      }
+    }
+  },
+});
 
 let demoSha: string | undefined;
 
 /** Open the invented demo economy. */
-export async function openDemo(): Promise<boolean> {
+export async function openDemo(o: { newProject?: boolean } = {}): Promise<boolean> {
   demoSha ??= await digestHex(new TextEncoder().encode(JSON.stringify(demoTable)));
   sourceSheet.id = '';
-  return useTable(DEMO_NAME, demoTable, { source: { kind: 'demo', name: 'vellan-coast.table.json', sha256: demoSha } });
+  return useTable(DEMO_NAME, demoTable, { source: { kind: 'demo', name: 'vellan-coast.table.json', sha256: demoSha }, sourceFile: null, ...o });
 }
 
 // ---------------------------------------------------------------------------------------------
@@ -235,10 +329,10 @@ export async function openFiles(list: File[]): Promise<void> {
   }
   if (opened.length === 1) {
     const { file, r } = opened[0]!;
-    if (r.type === 'project') return applyProject(r.project, file.name);
+    if (r.type === 'project') return applyProject(r.project, file.name, { newProject: true });
     if (r.type === 'table') {
       sourceSheet.id = '';
-      await useTable(file.name, r.table, { source: { kind: 'json', name: file.name, sha256: r.sha256, size: r.size } });
+      await useTable(file.name, r.table, { source: { kind: 'json', name: file.name, sha256: r.sha256, size: r.size }, newProject: true, sourceFile: null });
       return;
     }
     files.clear();
@@ -354,7 +448,9 @@ export async function confirmLayout(): Promise<void> {
     const info = p.info;
     const source: SourceInfo = { kind: info.kind, name: info.name, sha256: info.sha256, size: info.size, mapping: r.mapping as unknown as Record<string, unknown> };
     if (info.sheet !== undefined) source.sheet = info.sheet;
-    const ok = await useTable(info.name + (info.sheet && (info.sheets?.length ?? 0) > 1 ? ` (${info.sheet})` : ''), r.table, { source, readFindings: r.findings });
+    const file = files.get(info.id);
+    const sourceFile: SourceFile | null = file ? { name: info.name, bytes: new Uint8Array(await file.arrayBuffer()), ...(info.sheet !== undefined ? { sheet: info.sheet } : {}) } : null;
+    const ok = await useTable(info.name + (info.sheet && (info.sheets?.length ?? 0) > 1 ? ` (${info.sheet})` : ''), r.table, { source, readFindings: r.findings, newProject: true, sourceFile });
     if (ok) Object.assign(sourceSheet, { id: info.id, mapping: r.mapping, rowCount: info.rowCount, colCount: info.colCount });
     return;
   }
@@ -384,7 +480,7 @@ export async function confirmLayout(): Promise<void> {
     supplyUse: { kind: layout.suKind, technology: layout.technology, ...(layout.scrap.trim() ? { scrap: layout.scrap.trim() } : {}) },
   };
   const name = mk.info.name === us.info.name ? `${mk.info.name} (${mk.info.sheet ?? 'make'} + ${us.info.sheet ?? 'use'})` : `${mk.info.name} + ${us.info.name}`;
-  const ok = await useTable(name, r.table, { source, readFindings: r.findings });
+  const ok = await useTable(name, r.table, { source, readFindings: r.findings, newProject: true, sourceFile: null });
   if (ok) sourceSheet.id = '';
 }
 
@@ -392,11 +488,11 @@ export async function confirmLayout(): Promise<void> {
 // Projects and the autosave
 
 /** Use a project read (and validated) by the worker: its table, scenarios and view settings. */
-export async function applyProject(p: Project, fileName: string): Promise<void> {
+export async function applyProject(p: Project, fileName: string, o: { newProject?: boolean } = {}): Promise<void> {
   const drafts = p.scenarios.map((s) => draftOf(s));
   const w = workFromProject(p, fileName, drafts);
   sourceSheet.id = '';
-  const ok = await useTable(w.tableName, w.table, { source: w.source, views: w.snapshot, notes: w.notes });
+  const ok = await useTable(w.tableName, w.table, { source: w.source, views: w.snapshot, notes: w.notes, edits: w.edits, sourceFile: null, ...o });
   if (!ok) return;
   if (w.theme) app.theme = w.theme;
   if (w.locale !== undefined) app.locale = w.locale;
@@ -412,6 +508,7 @@ export function currentProjectText(): string {
       views: snapshotViews(),
       theme: app.theme,
       locale: app.locale,
+      edits: $state.snapshot(app.edits) as TableEdit[],
     },
     scenariosForProject(),
     { ...TOOL },
@@ -445,6 +542,8 @@ export function saveProject(): void {
 
 let store: WorkStore | undefined;
 let tableSnap: { ref: unknown; plain: PlainTable | null } = { ref: undefined, plain: null };
+/** The source file to keep with the current project at the next save (undefined: unchanged; null: none). */
+let pendingSource: SourceFile | null | undefined;
 
 /** The work as the autosave keeps it (the table's plain copy is made once per table). */
 export function currentWork(): Work {
@@ -452,26 +551,43 @@ export function currentWork(): Work {
   return {
     version: WORK_VERSION,
     savedAt: new Date().toISOString(),
+    name: app.projectName,
     tableName: app.tableName,
     table: tableSnap.plain,
     source: app.source ? ($state.snapshot(app.source) as SourceInfo) : null,
     readFindings: $state.snapshot(app.readFindings) as Finding[],
     views: snapshotViews(),
+    edits: $state.snapshot(app.edits) as TableEdit[],
     step: app.step === 'layout' ? (app.table ? 'checks' : 'open') : app.step,
     theme: app.theme,
     locale: app.locale,
   };
 }
 
-const saver = new Debouncer(
-  500,
-  async () => {
-    if (!store) return;
-    await store.save(currentWork());
+const QUOTA_NOTE = "This browser's storage is full: the work is not saved here. Delete projects you no longer need (Projects), or save a project file.";
+
+/** Save the current work (and the source file when it changed); a full storage is said, not thrown. */
+async function saveNow(): Promise<void> {
+  if (!store) return;
+  const work = currentWork();
+  try {
+    if (store instanceof ProjectStore) {
+      const src = pendingSource;
+      pendingSource = undefined;
+      const r = await store.save(work, src);
+      if (src && !r.sourceKept) app.storageNote = `The source file ${src.name} is too big for the space left in this browser: it is not kept, so findings cannot show their cells after a reload.`;
+      await refreshProjects();
+    } else await store.save(work);
     app.autosave = 'saved';
-  },
-  () => (app.autosave = 'failed'),
-);
+    if (app.storageNote === QUOTA_NOTE) app.storageNote = '';
+  } catch (e) {
+    if (!isQuotaError(e)) throw e;
+    app.autosave = 'full';
+    app.storageNote = QUOTA_NOTE;
+  }
+}
+
+const saver = new Debouncer(500, saveNow, () => (app.autosave = 'failed'));
 
 /** Ask for an autosave a moment from now (called by App.svelte after each change). */
 export function scheduleAutosave(): void {
@@ -485,64 +601,176 @@ export function flushAutosave(): Promise<void> {
   return saver.flush();
 }
 
+/** Read the project list again. */
+export async function refreshProjects(): Promise<void> {
+  if (!(store instanceof ProjectStore)) return;
+  projects.list = await store.list();
+  projects.current = store.current;
+}
+
+/** Open the source file kept with the project in the worker again, so that findings show their cells. */
+async function reopenSource(src: SourceFile | undefined, info: SourceInfo | null): Promise<void> {
+  sourceSheet.id = '';
+  if (!src || !info?.mapping || info.kind === 'supply-use') return;
+  const bytes = src.bytes.slice().buffer as ArrayBuffer;
+  try {
+    const r = await engine().call<Opened>('file-open', { name: src.name, bytes, ...(src.sheet !== undefined ? { options: { sheet: src.sheet } } : {}) }, { transfer: [bytes] });
+    if (r.type === 'sheet') Object.assign(sourceSheet, { id: r.id, mapping: info.mapping as unknown as LayoutMapping, rowCount: r.rowCount, colCount: r.colCount });
+  } catch {
+    // The cells are a help, not the work: without them the findings still name their cells.
+  }
+}
+
+/** Put a saved piece of work on the page (startup, or another project chosen). */
+async function restoreWork(raw: unknown, extraNotes: string[] = []): Promise<void> {
+  const { work, notes } = checkWork(raw);
+  notes.unshift(...extraNotes);
+  layout.sheets = [];
+  if (work) {
+    app.theme = work.theme;
+    app.locale = work.locale;
+    app.projectName = work.name ?? '';
+    setNumberLocale(work.locale || undefined);
+    if (work.table) {
+      const ok = await useTable(work.tableName, work.table, { source: work.source, readFindings: work.readFindings, step: (work.step as Step) || 'checks', views: work.views, notes, edits: work.edits ?? [] });
+      if (!ok) app.step = 'open';
+      else if (store instanceof ProjectStore) await reopenSource(await store.loadSource(), work.source);
+      return;
+    }
+    restoreViews(work.views);
+  } else restoreViews(defaultViews());
+  clearTable();
+  app.notes = notes;
+  app.step = 'open';
+}
+
+function clearTable(): void {
+  app.edits = [];
+  app.table = null;
+  app.tableName = '';
+  app.findings = [];
+  app.readFindings = [];
+  app.source = null;
+  sourceSheet.id = '';
+  resetHistory();
+}
+
 /**
- * On load: restore the autosaved work, or open the demo economy on a first visit. A store that
+ * On load: restore the current project, or open the demo economy on a first visit. A store that
  * cannot be opened (private windows may refuse IndexedDB) leaves the autosave off, said so.
  */
 export async function startup(s?: WorkStore): Promise<void> {
   try {
-    store = s ?? (await idbStore());
+    store = s ?? (await ProjectStore.open(await idbKV()));
   } catch {
     store = memoryStore();
     app.autosave = 'unavailable';
   }
   let raw: unknown;
   try {
-    raw = await store.load();
+    raw = await store!.load();
   } catch {
     raw = undefined;
     app.autosave = 'unavailable';
   }
-  const { work, notes } = checkWork(raw);
-  if (work) {
-    app.theme = work.theme;
-    app.locale = work.locale;
-    setNumberLocale(work.locale || undefined);
-    if (work.table) {
-      const ok = await useTable(work.tableName, work.table, { source: work.source, readFindings: work.readFindings, step: (work.step as Step) || 'checks', views: work.views, notes });
-      if (!ok) app.step = 'open';
-    } else {
-      restoreViews(work.views);
-      app.notes = notes;
-      app.step = 'open';
-    }
-  } else {
+  await refreshProjects();
+  if (raw !== undefined && raw !== null) await restoreWork(raw);
+  else {
+    const { notes } = checkWork(raw);
     app.notes = notes;
-    await openDemo();
+    if (projects.list.length) {
+      // Projects are kept but the current one is gone: show the list rather than the demo.
+      app.step = 'projects';
+    } else {
+      app.firstVisit = true;
+      await openDemo();
+    }
   }
   if (app.autosave === 'off') app.autosave = 'saved';
   app.ready = true;
+  void askPersistence();
 }
 
-/** Drop everything: the table, the views, the autosave. The next visit starts empty (not with the demo). */
+/** Ask the browser to keep the projects when space runs low; say so when it may clear them. */
+async function askPersistence(): Promise<void> {
+  if (typeof navigator === 'undefined' || !(store instanceof ProjectStore)) return;
+  const st = (navigator as Navigator & { storage?: StorageManager }).storage;
+  if (!st?.persist) return;
+  try {
+    const kept = (await st.persisted?.()) || (await st.persist());
+    if (!kept && !app.storageNote) app.storageNote = 'This browser may clear the projects kept here when its space runs low (it did not grant lasting storage): save project files of work you need.';
+  } catch {
+    // Not offered: nothing to say.
+  }
+}
+
+/** Switch to another project kept in this browser (the current one is saved first). */
+export async function switchProject(id: string): Promise<void> {
+  if (!(store instanceof ProjectStore) || id === store.current) return;
+  await saver.flush();
+  await store.select(id);
+  projects.current = id;
+  pendingSource = undefined;
+  await restoreWork(await store.load());
+}
+
+/** A new, empty project (the current one is saved first). */
+export async function newProject(): Promise<void> {
+  if (!(store instanceof ProjectStore)) return;
+  await saver.flush();
+  await store.create();
+  projects.current = store.current;
+  pendingSource = undefined;
+  app.projectName = '';
+  app.notes = [];
+  clearTable();
+  restoreViews(defaultViews());
+  app.step = 'open';
+}
+
+/** Delete a project kept in this browser (after a confirmation on the page). */
+export async function deleteProject(id: string): Promise<void> {
+  if (!(store instanceof ProjectStore)) return;
+  const wasCurrent = id === store.current;
+  if (wasCurrent) saver.cancel();
+  await store.remove(id);
+  await refreshProjects();
+  if (wasCurrent) {
+    const next = projects.list[0];
+    if (next) {
+      await store.select(next.id);
+      projects.current = next.id;
+      await restoreWork(await store.load());
+    } else {
+      clearTable();
+      restoreViews(defaultViews());
+      app.projectName = '';
+      app.step = 'open';
+    }
+  }
+}
+
+/** Read another project's work without opening it (side by side). */
+export async function otherProjectWork(id: string): Promise<Work | undefined> {
+  if (!(store instanceof ProjectStore)) return undefined;
+  const { work } = checkWork(await store.loadOther(id));
+  return work?.table ? (work as Work) : undefined;
+}
+
+/** Drop the current project's work: the table, the views, its autosave. The next visit starts empty (not with the demo). */
 export async function startFresh(): Promise<void> {
   saver.cancel();
-  app.table = null;
-  app.tableName = '';
-  app.findings = [];
-  app.readFindings = [];
-  app.source = null;
+  clearTable();
   app.error = '';
   app.notes = [];
   layout.sheets = [];
-  sourceSheet.id = '';
   files.clear();
+  pendingSource = null;
   restoreViews(defaultViews());
   app.step = 'open';
   void engine().call('file-close', {});
   if (store) {
     await store.clear();
-    await store.save(currentWork());
-    app.autosave = 'saved';
+    await saveNow();
   }
 }

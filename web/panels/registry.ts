@@ -14,6 +14,10 @@ import ResultsPanel from './ResultsPanel.svelte';
 import SensitivityPanel from './SensitivityPanel.svelte';
 import LayoutPanel from './LayoutPanel.svelte';
 import ReportPanel from './ReportPanel.svelte';
+import ProjectsPanel from './ProjectsPanel.svelte';
+import EditPanel from './EditPanel.svelte';
+import LeontiefPanel from './LeontiefPanel.svelte';
+import ComparePanel from './ComparePanel.svelte';
 
 export const panels: Partial<Record<Step, Component>> = {
   open: OpenPanel,
@@ -26,4 +30,8 @@ export const panels: Partial<Record<Step, Component>> = {
   results: ResultsPanel,
   sensitivity: SensitivityPanel,
   report: ReportPanel,
+  projects: ProjectsPanel,
+  edit: EditPanel,
+  inverse: LeontiefPanel,
+  compare: ComparePanel,
 };

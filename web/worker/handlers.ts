@@ -8,6 +8,7 @@ import { analysisOps } from './ops/analyses';
 import { sensitivityOps } from './ops/sensitivity';
 import { fileOps } from './ops/files';
 import { reportOps } from './ops/report';
+import { editOps } from './ops/edit';
 
 const groups: Record<string, Handler>[] = [
   tableOps,
@@ -15,6 +16,7 @@ const groups: Record<string, Handler>[] = [
   sensitivityOps,
   fileOps,
   reportOps,
+  editOps,
 ];
 
 export const handlers: Record<string, Handler> = {};

@@ -52,6 +52,9 @@ export function histogram(input: HistogramInput): Chart {
     parts.push(text({ x: x(k.value), y: m.top - 8 - (i % 2) * 11, 'text-anchor': 'middle', fill: INK, 'font-size': 10 }, `${k.label} ${fmt(k.value)}`));
   });
   parts.push(text({ x: (m.left + width - m.right) / 2, y: height - 6, 'text-anchor': 'middle', fill: INK }, input.unit));
+  // The y axis's title, along the axis: what the bar heights count.
+  const yMid = (m.top + height - m.bottom) / 2;
+  parts.push(text({ x: 12, y: yMid, 'text-anchor': 'middle', fill: INK, 'font-size': 11, transform: `rotate(-90 12 ${yMid})` }, 'Draws (count)'));
   const total = bins.reduce((s, b) => s + b.count, 0);
   return svgRoot(width, height, input.title, `Distribution of ${total} draws in ${bins.length} bins, in ${input.unit}.`, parts.join(''));
 }

@@ -6,10 +6,10 @@
  * SHA-256 (crypto.subtle); the general cautions are in every format (src/report adds them).
  */
 import { checkScenario, impacts, linkages, multipliers, resolveScenario, sectorIndex, tornado } from '../../../engine/index';
-import type { ResultTarget, Scenario } from '../../../engine/index';
+import type { Impact, ResultTarget, Scenario } from '../../../engine/index';
 import { writeScenarios } from '../../../src/project/scenarios';
 import type { ReportInputFile, ReportSetting, Section } from '../../../src/report/model';
-import { buildReport, checksSection, comparisonSection, linkagesSection, modelAssumptions, multipliersSection, scenarioSection, setting, tornadoSection } from '../../../src/report/model';
+import { buildReport, checksSection, comparisonSection, linkagesSection, modelAssumptions, multipliersSection, scenarioSection, setting, textSection, tornadoSection } from '../../../src/report/model';
 import type { Report } from '../../../src/report/model';
 import { digestHex } from '../../../src/report/sha256';
 import type { ReportFormat } from '../../../src/report/write';
@@ -36,17 +36,23 @@ export interface ReportRequest {
   /** Settings of the workbench to state in the report (layout mapping, kind of table...). */
   settings?: ReportSetting[];
   createdAt?: string;
+  /** The edits made to the table in the workbench since it was read, one line each. */
+  edits?: string[];
 }
 
+/** The report's formats, and the tidy CSV of the impacts (src/report/tidy-csv.ts). */
+export type ExportFormat = ReportFormat | 'tidy-csv';
+
 export interface ReportFile {
-  format: ReportFormat;
+  format: ExportFormat;
   name: string;
   mime: string;
   /** Text for HTML, CSV and JSON; bytes for XLSX. */
   data: string | Uint8Array;
 }
 
-const MIME: Record<ReportFormat, string> = {
+const MIME: Record<ExportFormat, string> = {
+  'tidy-csv': 'text/csv;charset=utf-8',
   html: 'text/html;charset=utf-8',
   xlsx: 'application/vnd.openxmlformats-officedocument.spreadsheetml.sheet',
   csv: 'text/csv;charset=utf-8',
@@ -54,7 +60,7 @@ const MIME: Record<ReportFormat, string> = {
 };
 
 /** Build the report model from the current table and the page's settings. */
-export async function buildWorkbenchReport(req: ReportRequest): Promise<Report> {
+export async function buildWorkbenchReport(req: ReportRequest, keep: { impacts?: Impact[] } = {}): Promise<Report> {
   const s = current();
   const t = s.table;
   const a = analysisModels(req.household);
@@ -65,6 +71,7 @@ export async function buildWorkbenchReport(req: ReportRequest): Promise<Report> 
   const mult = multipliers(models, a.measures);
   const link = linkages(t, openModel());
   const results = usable.length ? impacts(models, usable, a.measures) : [];
+  keep.impacts = results;
   const settings: ReportSetting[] = [...(req.settings ?? [])];
   const h = a.household;
   if (h.used && h.options) {
@@ -117,6 +124,10 @@ export async function buildWorkbenchReport(req: ReportRequest): Promise<Report> 
     settings.push(setting('tornado', 'Sensitivity tornado', what, o.sector || o.scenario ? 'given' : 'default'), setting('tornadoPercent', 'Tornado swing (%)', percent, o.percent !== undefined ? 'given' : 'default'), setting('tornadoTop', 'Tornado coefficients', top, o.top !== undefined ? 'given' : 'default'));
   } else settings.push(setting('tornado', 'Sensitivity tornado', 'off', 'given'));
 
+  if (req.edits?.length) {
+    sections.push(textSection('edits', 'Edits to the table', 'Cells and details changed in the workbench after the table was read from its source, in order.', req.edits.map((e, k) => `${k + 1}. ${e}`)));
+    settings.push(setting('edits', 'Edits to the table after reading', req.edits.length, 'given', 'Listed in the section Edits to the table'));
+  }
   const checks = [...(req.readFindings ?? []), ...s.findings];
   sections.push(checksSection(checks, { condition: openModel().condition() }));
 
@@ -161,10 +172,11 @@ export function fileStem(title: string): string {
 
 export const reportOps: Record<string, Handler> = {
   /** The report written in the formats asked for (default all four). */
-  'report-export': async (args: ReportRequest & { formats?: ReportFormat[] }, ctx): Promise<{ title: string; files: ReportFile[]; cautions: string[] }> => {
+  'report-export': async (args: ReportRequest & { formats?: ExportFormat[] }, ctx): Promise<{ title: string; files: ReportFile[]; cautions: string[] }> => {
     ctx.progress(0, 'building the report');
-    const report = await buildWorkbenchReport(args);
-    const formats = args.formats?.length ? args.formats : (['html', 'xlsx', 'csv', 'json'] as ReportFormat[]);
+    const kept: { impacts?: Impact[] } = {};
+    const report = await buildWorkbenchReport(args, kept);
+    const formats = args.formats?.length ? args.formats : (['html', 'xlsx', 'csv', 'json'] as ExportFormat[]);
     const files: ReportFile[] = [];
     const stem = fileStem(report.title);
     for (const [k, f] of formats.entries()) {
@@ -175,8 +187,9 @@ export const reportOps: Record<string, Handler> = {
       else if (f === 'xlsx') data = await (await import('../../../src/report/xlsx')).writeXlsx(report);
       else if (f === 'csv') data = (await import('../../../src/report/csv')).writeCsv(report);
       else if (f === 'json') data = (await import('../../../src/report/json')).writeJson(report);
-      else throw new InputError('bad-format', `reports are written as html, xlsx, csv or json; got '${String(f)}'`);
-      files.push({ format: f, name: `${stem}.${f}`, mime: MIME[f], data });
+      else if (f === 'tidy-csv') data = (await import('../../../src/report/tidy-csv')).writeTidyCsv(kept.impacts ?? [], { title: report.title, cautions: report.cautions });
+      else throw new InputError('bad-format', `reports are written as html, xlsx, csv, json or tidy-csv; got '${String(f)}'`);
+      files.push({ format: f, name: f === 'tidy-csv' ? `${stem}.tidy.csv` : `${stem}.${f}`, mime: MIME[f], data });
     }
     for (const f of files) if (f.data instanceof Uint8Array) ctx.transfer(f.data.buffer as ArrayBuffer);
     ctx.progress(1);

@@ -1,5 +1,5 @@
 /** Operations on the current table itself. */
-import { coefficients } from '../../../engine/index';
+import { coefficients, LeontiefModel, makeTable } from '../../../engine/index';
 import type { PlainTable } from '../../../engine/index';
 import type { Handler } from '../context';
 import { current, openModel, setTable } from './session';
@@ -18,6 +18,28 @@ export const tableOps: Record<string, Handler> = {
     const s = current();
     const om = openModel().outputMultipliers();
     return { codes: s.table.sectors.codes, values: Array.from(om) };
+  },
+
+  /** The Leontief inverse L = (I − A)⁻¹ of the open model (a copy, transferred; the model keeps its own). */
+  'leontief-inverse': (_args, ctx) => {
+    const L = openModel().inverse();
+    const data = Float64Array.from(L.data);
+    ctx.transfer(data.buffer as ArrayBuffer);
+    return { rows: L.rows, cols: L.cols, data };
+  },
+
+  /**
+   * Simple output multipliers (column sums of L) of the current table and of another one given
+   * (another project's), without changing the current table: two projects side by side.
+   */
+  'compare-multipliers': (args: { other: PlainTable }) => {
+    const s = current();
+    const other = makeTable(args.other);
+    const om = (m: LeontiefModel) => Array.from(m.outputMultipliers());
+    return {
+      current: { codes: [...s.table.sectors.codes], labels: [...s.table.sectors.labels], values: om(openModel()) },
+      other: { codes: [...other.sectors.codes], labels: [...other.sectors.labels], values: om(LeontiefModel.fromTable(other)) },
+    };
   },
 
   /** The technical coefficients A, for the heat map (the buffer is transferred, not copied). */
