@@ -3,12 +3,13 @@
  * unit. Written with hyparquet-writer (pure JavaScript, no binary), read back with hyparquet (its
  * reader). test/sweep/duckdb.test.ts checks that DuckDB reads the files and gets the same sums.
  *
- * Columns (every one required, no nulls):
+ * Columns (every one required, no nulls, but delta):
  *   work_unit INT32   the unit's number in the plan's expansion
  *   table     STRING  the table's name in the plan
  *   scenario  STRING  the scenario's name
  *   household STRING  'off', 'table' or the closure share
  *   cv        DOUBLE  coefficient of variation of the coefficients (0: the table's own)
+ *   delta     DOUBLE  the FLQ or AFLQ δ of a regionalised table; null (optional column) otherwise
  *   draw      INT32   the draw number (0 when cv is 0)
  *   sector    STRING  the sector's code
  *   measure   STRING  the measure's code (output, value-added, a satellite row…)
@@ -26,7 +27,7 @@ import type { Writer } from 'hyparquet-writer';
 import { parquetMetadata, parquetRead } from 'hyparquet';
 
 export const TEXT_COLUMNS = ['table', 'scenario', 'household', 'sector', 'measure', 'effect', 'unit'] as const;
-export const COLUMN_ORDER = ['work_unit', 'table', 'scenario', 'household', 'cv', 'draw', 'sector', 'measure', 'effect', 'value', 'unit'] as const;
+export const COLUMN_ORDER = ['work_unit', 'table', 'scenario', 'household', 'cv', 'delta', 'draw', 'sector', 'measure', 'effect', 'value', 'unit'] as const;
 
 type TextColumn = (typeof TEXT_COLUMNS)[number];
 
@@ -34,6 +35,7 @@ type TextColumn = (typeof TEXT_COLUMNS)[number];
 export class RowBuffer {
   work_unit: number[] = [];
   cv: number[] = [];
+  delta: (number | null)[] = [];
   draw: number[] = [];
   value: number[] = [];
   text: Record<TextColumn, string[]> = { table: [], scenario: [], household: [], sector: [], measure: [], effect: [], unit: [] };
@@ -43,9 +45,10 @@ export class RowBuffer {
   }
 
   /** One row, by position in COLUMN_ORDER (no object per row: a shard writes millions). */
-  push(workUnit: number, table: string, scenario: string, household: string, cv: number, draw: number, sector: string, measure: string, effect: string, value: number, unit: string): void {
+  push(workUnit: number, table: string, scenario: string, household: string, cv: number, delta: number | null, draw: number, sector: string, measure: string, effect: string, value: number, unit: string): void {
     this.work_unit.push(workUnit);
     this.cv.push(cv);
+    this.delta.push(delta);
     this.draw.push(draw);
     this.value.push(value);
     const t = this.text;
@@ -63,6 +66,7 @@ export class RowBuffer {
     for (let i = from; i < to; i++) {
       this.work_unit.push(b.work_unit[i]!);
       this.cv.push(b.cv[i]!);
+      this.delta.push(b.delta[i] ?? null);
       this.draw.push(b.draw[i]!);
       this.value.push(b.value[i]!);
       for (const k of TEXT_COLUMNS) this.text[k].push(b.text[k][i]!);
@@ -77,6 +81,8 @@ const SCHEMA = [
       ? { name, type: 'INT32' as const, repetition_type: 'REQUIRED' as const }
       : name === 'cv' || name === 'value'
         ? { name, type: 'DOUBLE' as const, repetition_type: 'REQUIRED' as const }
+        : name === 'delta'
+          ? { name, type: 'DOUBLE' as const, repetition_type: 'OPTIONAL' as const }
         : { name, type: 'BYTE_ARRAY' as const, converted_type: 'UTF8' as const, repetition_type: 'REQUIRED' as const },
   ),
 ];
@@ -133,6 +139,7 @@ export class ResultsFile {
     const columnData = COLUMN_ORDER.map((name) => {
       if (name === 'work_unit' || name === 'draw') return { name, data: Int32Array.from(b[name]) };
       if (name === 'cv' || name === 'value') return { name, data: Float64Array.from(b[name]) };
+      if (name === 'delta') return { name, data: b.delta };
       return { name, data: b.text[name] };
     });
     void this.writer.write({ columnData, rowGroupSize: n });
@@ -203,6 +210,7 @@ export async function* readResults(path: string): AsyncGenerator<RowBuffer> {
     const b = new RowBuffer();
     b.work_unit = cols.work_unit as number[];
     b.cv = cols.cv as number[];
+    b.delta = (cols.delta as (number | null | undefined)[]).map((v) => (v === undefined || v === null ? null : Number(v)));
     b.draw = cols.draw as number[];
     b.value = cols.value as number[];
     for (const k of TEXT_COLUMNS) b.text[k] = cols[k] as string[];

@@ -7,7 +7,7 @@
  *     "name": "Coast study", "seed": 1, "draws": 200,
  *     "tables": [ { "name": "coast", "file": "coast.csv", "mapping": "coast-mapping.json" } ],
  *     "scenarios": [ { "file": "scenarios.json", "names": ["New plant"] } ],
- *     "parameters": { "household": ["off", "table", 0.6, 0.8], "cv": [0, 0.1] },
+ *     "parameters": { "household": ["off", "table", 0.6, 0.8], "cv": [0, 0.1], "delta": [0.1, 0.2, 0.3] },
  *     "measures": ["output", "value-added"], "effects": ["direct", "indirect", "induced", "total"],
  *     "rowsPerGroup": 65536 }
  *
@@ -16,11 +16,24 @@
  * from 0 to 1 (the closure share, `--propensity` of `impact`). `cv` is the coefficient of
  * variation of every technical coefficient (0: the table's own coefficients, one unit, no draws).
  *
+ * A table entry may carry `"regional": { "file": "region.csv", "method": "flq" }` (and optionally
+ * `basis` employment | output | earnings, `regionalColumn`, `nationalColumn`, `region`, `sheet`,
+ * `delta`): the table is then regionalised first, as `ripplewise regionalise` does, and the units
+ * run on the regional table. `delta` of `parameters` is a grid over the FLQ or AFLQ δ: each table
+ * regionalised by FLQ or AFLQ becomes one table variant per δ (its own `delta` is then not given);
+ * the other tables have one variant each. Variants take the table's name, with ` δ=…` added when a
+ * table has several.
+ *
  * Expansion order (the unit number is a mixed-radix number in this order, last fastest):
- * table, cv, draw, household, scenario. Units that share a table, a cv and a draw share one
+ * table variant (table, then δ), cv, draw, household, scenario. Units that share a table, a cv and a draw share one
  * perturbed coefficient matrix, so a contiguous block of units (a shard) factors it once.
  * Browser-safe: no file system here.
  */
+import type { BasisKind } from '../../engine/regional/basis';
+import { BASIS_KINDS } from '../../engine/regional/basis';
+import type { RegionalMethod } from '../../engine/regional/regionalise';
+import { REGIONAL_METHODS } from '../../engine/regional/regionalise';
+import { DEFAULT_DELTA } from '../../engine/regional/flq';
 import { Checker } from '../project/check';
 import { parseJson } from '../project/json';
 
@@ -33,6 +46,19 @@ export type Effect = (typeof EFFECTS)[number];
 /** A closure setting of the grid: open model, the table's own share, or a given share. */
 export type HouseholdPoint = 'off' | 'table' | number;
 
+/** Regionalisation of a table before its units run (as `ripplewise regionalise`). */
+export interface PlanRegional {
+  file: string;
+  method: RegionalMethod;
+  basis: BasisKind;
+  sheet?: string;
+  regionalColumn?: string;
+  nationalColumn?: string;
+  region?: string;
+  /** δ for FLQ and AFLQ when `parameters.delta` is not given (default 0.3). */
+  delta?: number;
+}
+
 export interface PlanTable {
   name: string;
   file: string;
@@ -40,7 +66,20 @@ export interface PlanTable {
   mapping?: string;
   householdColumn?: string;
   labourIncomeRow?: string;
+  regional?: PlanRegional;
 }
+
+/** One table as the units see it: a plan table, regionalised with one δ or not regionalised. */
+export interface TableVariant {
+  /** Index in plan.tables. */
+  table: number;
+  name: string;
+  /** The δ of FLQ or AFLQ (undefined for other methods and national tables). */
+  delta?: number;
+}
+
+/** Methods that take a δ. */
+export const DELTA_METHODS: readonly RegionalMethod[] = ['flq', 'aflq'];
 
 export interface PlanScenarios {
   file: string;
@@ -56,6 +95,8 @@ export interface SweepPlan {
   scenarios: PlanScenarios[];
   household: HouseholdPoint[];
   cv: number[];
+  /** The grid over δ for tables regionalised by FLQ or AFLQ (none: each table's own δ). */
+  delta?: number[];
   measures?: string[];
   effects: Effect[];
   productivity: 'column-sums' | 'perron';
@@ -64,7 +105,8 @@ export interface SweepPlan {
 }
 
 const TOP_KEYS = ['format', 'version', 'name', 'seed', 'draws', 'tables', 'scenarios', 'parameters', 'measures', 'effects', 'productivity', 'description', 'rowsPerGroup'];
-const PARAMETER_KEYS = ['household', 'cv'];
+const PARAMETER_KEYS = ['household', 'cv', 'delta'];
+const REGIONAL_KEYS = ['file', 'method', 'basis', 'sheet', 'regionalColumn', 'nationalColumn', 'region', 'delta'];
 const MAX_UNITS = 100_000_000;
 
 function noUnknown(c: Checker, o: Record<string, unknown>, allowed: string[], at: string, hint?: Record<string, string>): void {
@@ -83,6 +125,41 @@ function distinct<T>(c: Checker, values: T[], path: string): T[] {
   return values;
 }
 
+function readRegional(c: Checker, v: unknown, at: string): PlanRegional {
+  const r = c.object(v, at);
+  noUnknown(c, r, REGIONAL_KEYS, `${at}.`);
+  const file = c.string(r.file, `${at}.file`);
+  if (!file.trim()) c.fail(`${at}.file`, 'a file name', r.file);
+  const method = c.string(r.method, `${at}.method`);
+  if (!(REGIONAL_METHODS as readonly string[]).includes(method)) c.fail(`${at}.method`, REGIONAL_METHODS.join(', '), method);
+  const basis = c.optString(r.basis, `${at}.basis`) ?? 'employment';
+  if (!(BASIS_KINDS as readonly string[]).includes(basis)) c.fail(`${at}.basis`, BASIS_KINDS.join(', '), basis);
+  const out: PlanRegional = { file, method: method as RegionalMethod, basis: basis as BasisKind };
+  for (const k of ['sheet', 'regionalColumn', 'nationalColumn', 'region'] as const) {
+    const x = c.optString(r[k], `${at}.${k}`);
+    if (x !== undefined) out[k] = x;
+  }
+  const d = c.optNumber(r.delta, `${at}.delta`);
+  if (d !== undefined) {
+    if (!(d >= 0 && d <= 1)) c.fail(`${at}.delta`, 'a δ from 0 to 1', d);
+    if (!DELTA_METHODS.includes(out.method)) c.fail(`${at}.delta`, `left out: ${method} takes no δ`, d);
+    out.delta = d;
+  }
+  return out;
+}
+
+/** The table variants of a plan, in expansion order: each table, then each δ of the grid where it applies. */
+export function tableVariants(plan: SweepPlan): TableVariant[] {
+  const out: TableVariant[] = [];
+  plan.tables.forEach((t, i) => {
+    const r = t.regional;
+    if (r && DELTA_METHODS.includes(r.method) && plan.delta) {
+      for (const d of plan.delta) out.push({ table: i, name: plan.delta.length > 1 ? `${t.name} δ=${d}` : t.name, delta: d });
+    } else out.push({ table: i, name: t.name, ...(r && DELTA_METHODS.includes(r.method) ? { delta: r.delta ?? DEFAULT_DELTA } : {}) });
+  });
+  return out;
+}
+
 /** Read and validate a plan; every problem names the file and the path of the field. */
 export function readPlan(text: string, file: string): SweepPlan {
   const c = new Checker(file);
@@ -96,7 +173,7 @@ export function readPlan(text: string, file: string): SweepPlan {
   const tables = c.array(o.tables, 'tables').map((x, i) => {
     const t = c.object(x, `tables[${i}]`);
     const at = `tables[${i}].`;
-    noUnknown(c, t, ['name', 'file', 'sheet', 'mapping', 'householdColumn', 'labourIncomeRow'], at);
+    noUnknown(c, t, ['name', 'file', 'sheet', 'mapping', 'householdColumn', 'labourIncomeRow', 'regional'], at);
     const fileName = c.string(t.file, `${at}file`);
     if (!fileName.trim()) c.fail(`${at}file`, 'a file name', t.file);
     const out: PlanTable = { name: c.optString(t.name, `${at}name`) ?? fileName, file: fileName };
@@ -108,6 +185,7 @@ export function readPlan(text: string, file: string): SweepPlan {
     if (mapping !== undefined) out.mapping = mapping;
     if (hc !== undefined) out.householdColumn = hc;
     if (lr !== undefined) out.labourIncomeRow = lr;
+    if (t.regional !== undefined) out.regional = readRegional(c, t.regional, `${at}regional`);
     return out;
   });
   if (!tables.length) c.fail('tables', 'a list of at least one table', o.tables);
@@ -121,9 +199,7 @@ export function readPlan(text: string, file: string): SweepPlan {
   });
   if (!scenarios.length) c.fail('scenarios', 'a list of at least one scenario file', o.scenarios);
   const params = c.object(o.parameters ?? {}, 'parameters');
-  noUnknown(c, params, PARAMETER_KEYS, 'parameters.', {
-    delta: 'one of household, cv (a grid over the FLQ δ needs regionalisation, which sweeps do not run yet)',
-  });
+  noUnknown(c, params, PARAMETER_KEYS, 'parameters.');
   const household = distinct(
     c,
     c.array(params.household ?? ['table'], 'parameters.household').map((v, i): HouseholdPoint => {
@@ -140,6 +216,20 @@ export function readPlan(text: string, file: string): SweepPlan {
     'parameters.cv',
   );
   if (!cv.length) c.fail('parameters.cv', 'a list of at least one coefficient of variation', params.cv);
+  let delta: number[] | undefined;
+  if (params.delta !== undefined) {
+    delta = distinct(
+      c,
+      c.numbers(params.delta, 'parameters.delta').map((v, i) => (v >= 0 && v <= 1 ? v : c.fail(`parameters.delta[${i}]`, 'a δ from 0 to 1 (the common default is 0.3)', v))),
+      'parameters.delta',
+    );
+    if (!delta.length) c.fail('parameters.delta', 'a list of at least one δ', params.delta);
+    const takers = tables.filter((t) => t.regional && DELTA_METHODS.includes(t.regional.method));
+    if (!takers.length) c.fail('parameters.delta', 'given only when some table has "regional" with the method flq or aflq (δ is their parameter)', params.delta);
+    tables.forEach((t, i) => {
+      if (t.regional?.delta !== undefined && DELTA_METHODS.includes(t.regional.method)) c.fail(`tables[${i}].regional.delta`, 'left out when parameters.delta gives the grid', t.regional.delta);
+    });
+  }
   const plan: SweepPlan = {
     name: c.optString(o.name, 'name') ?? file,
     seed,
@@ -148,6 +238,7 @@ export function readPlan(text: string, file: string): SweepPlan {
     scenarios,
     household,
     cv,
+    ...(delta ? { delta } : {}),
     effects: [...EFFECTS],
     productivity: 'column-sums',
     rowsPerGroup: 65_536,
@@ -180,6 +271,7 @@ export function readPlan(text: string, file: string): SweepPlan {
 /** One work unit: what it computes, and its number in the expansion. */
 export interface WorkUnit {
   index: number;
+  /** The table variant (index in Expansion.variants). */
   table: number;
   cv: number;
   draw: number;
@@ -190,6 +282,8 @@ export interface WorkUnit {
 /** The expansion of a plan once the scenario names are known: unit count and unit by number. */
 export interface Expansion {
   plan: SweepPlan;
+  /** The table variants (tableVariants), which units number by. */
+  variants: TableVariant[];
   /** Every scenario of the sweep, in plan order: its file (index in plan.scenarios) and name. */
   scenarios: { set: number; name: string }[];
   /** Draws of each cv value (1 for cv 0: the table's own coefficients). */
@@ -203,7 +297,8 @@ export function expand(plan: SweepPlan, scenarios: { set: number; name: string }
   const H = plan.household.length;
   const drawsOf = plan.cv.map((v) => (v === 0 ? 1 : plan.draws));
   const perTable = drawsOf.reduce((a, d) => a + d * H * S, 0);
-  const count = plan.tables.length * perTable;
+  const variants = tableVariants(plan);
+  const count = variants.length * perTable;
   if (!S) throw new Error('a sweep needs at least one scenario');
   if (count > MAX_UNITS) throw new Error(`the plan expands to ${count} units, more than ${MAX_UNITS}`);
   const cvStart: number[] = [];
@@ -214,6 +309,7 @@ export function expand(plan: SweepPlan, scenarios: { set: number; name: string }
   }
   return {
     plan,
+    variants,
     scenarios,
     drawsOf,
     count,
@@ -241,5 +337,5 @@ export function householdText(h: HouseholdPoint): string {
 /** A unit described in words, for messages: table, scenario and parameters. */
 export function describeUnit(e: Expansion, u: WorkUnit): string {
   const p = e.plan;
-  return `unit ${u.index} (table '${p.tables[u.table]!.name}', scenario '${e.scenarios[u.scenario]!.name}', household ${householdText(p.household[u.household]!)}, cv ${p.cv[u.cv]}, draw ${u.draw})`;
+  return `unit ${u.index} (table '${e.variants[u.table]!.name}', scenario '${e.scenarios[u.scenario]!.name}', household ${householdText(p.household[u.household]!)}, cv ${p.cv[u.cv]}, draw ${u.draw})`;
 }

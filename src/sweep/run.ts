@@ -33,7 +33,9 @@ import type { PreparedMonteCarlo } from '../../engine/uncertainty';
 import { drawCoefficients, prepareMonteCarlo, productivityRejection } from '../../engine/uncertainty';
 import type { TableSummary } from '../report/model';
 import { describeTable } from '../report/model';
+import { regionalise } from '../../engine/regional/regionalise';
 import { checkedTable, TOOL } from '../cli/common';
+import { chooseBasis, readValues } from '../cli/regional-input';
 import type { CliContext } from '../cli/context';
 import { absolute } from '../cli/context';
 import { UsageError } from '../cli/errors';
@@ -43,7 +45,7 @@ import { prepareModels } from '../cli/model-options';
 import { loadScenarios } from '../cli/scenario-input';
 import { RowBuffer, ResultsFile } from './parquet';
 import type { Expansion, HouseholdPoint, SweepPlan, WorkUnit } from './plan';
-import { describeUnit, expand, householdText, readPlan } from './plan';
+import { describeUnit, expand, householdText, readPlan, tableVariants } from './plan';
 import type { ShardChoice } from './shard';
 import { shardFolder, shardRange } from './shard';
 
@@ -80,7 +82,7 @@ export interface Manifest {
   format: typeof MANIFEST_FORMAT;
   version: typeof MANIFEST_VERSION;
   tool: { name: string; version: string };
-  plan: { name: string; file: string; sha256: string; units: number; seed: number; draws: number; cv: number[]; household: string[]; effects: string[] };
+  plan: { name: string; file: string; sha256: string; units: number; seed: number; draws: number; cv: number[]; delta?: number[]; household: string[]; effects: string[] };
   /** SHA-256 of the sorted input list: equal digests mean the same inputs. */
   inputsDigest: string;
   inputs: SweepInput[];
@@ -93,9 +95,11 @@ export interface Manifest {
   complete: boolean;
 }
 
-/** What the runner needs from a loaded table. */
+/** What the runner needs from a loaded table (one table variant: a plan table, regionalised with one δ or not). */
 interface LoadedSweepTable {
   name: string;
+  /** The δ of a table regionalised by FLQ or AFLQ, else null. */
+  delta: number | null;
   n: number;
   codes: string[];
   /** Per closure point of the plan: the models of the table's own coefficients and the measures. */
@@ -145,22 +149,17 @@ export async function loadSweep(ctx: CliContext, planName: string): Promise<Load
     const loaded = await checkedTable(ctx, at(pt.file), { ...(pt.sheet !== undefined ? { sheet: pt.sheet } : {}), ...(pt.mapping !== undefined ? { mapping: at(pt.mapping) } : {}) });
     inputs.push({ role: `table:${pt.name}`, name: pt.file, sha256: loaded.file.sha256 });
     for (const x of loaded.extra) inputs.push({ role: `${x.role}:${pt.name}`, name: pt.mapping ?? basename(x.file.name), sha256: x.file.sha256 });
-    const t = loaded.table;
-    const prepared = plan.household.map((h) => {
-      const p = prepareModels(t, modelFlags(plan, pt, h));
-      if (h !== 'off' && p.closure !== 'closed') {
-        throw new UsageError(
-          `plan ${planName}: table '${pt.name}' has no household closure that could be identified, but parameters.household asks for ${householdText(h)}`,
-          'closure-incomplete',
-          `Give tables[${ti}].householdColumn and tables[${ti}].labourIncomeRow, or use "off" only`,
-        );
-      }
-      return p;
-    });
+    const national = loaded.table;
+    let read: Awaited<ReturnType<typeof readValues>> | undefined;
+    if (pt.regional) {
+      const r = pt.regional;
+      read = await readValues(ctx, at(r.file), 'regional file', national.sectors, r.sheet !== undefined ? { sheet: r.sheet } : {});
+      inputs.push({ role: `regional:${pt.name}`, name: r.file, sha256: read.file.sha256 });
+    }
     const resolved: ResolvedScenario[] = [];
     const names: { set: number; name: string }[] = [];
     for (const [si, ps] of plan.scenarios.entries()) {
-      const sc = await loadScenarios(ctx, at(ps.file), t, ps.names);
+      const sc = await loadScenarios(ctx, at(ps.file), national, ps.names);
       if (ti === 0) inputs.push({ role: `scenarios:${si + 1}`, name: ps.file, sha256: sc.file.sha256 });
       sc.resolved.forEach((r) => {
         resolved.push(r);
@@ -175,9 +174,28 @@ export async function loadSweep(ctx: CliContext, planName: string): Promise<Load
         seen.set(s.name, s.set);
       }
     }
-    const ms = prepared[0]!.measures;
-    tables.push({ name: pt.name, n: t.sectors.codes.length, codes: [...t.sectors.codes], prepared, scenarios: resolved });
-    entries.push({ name: pt.name, summary: describeTable(t), measures: ms.map((m) => ({ code: m.code, label: m.label, unit: m.unit })), sectors: t.sectors.codes.length });
+    for (const v of tableVariants(plan).filter((x) => x.table === ti)) {
+      let t = national;
+      if (pt.regional && read) {
+        const r = pt.regional;
+        const choice = chooseBasis(national, read, r.basis, { ...(r.regionalColumn ? { regionalColumn: r.regionalColumn } : {}), ...(r.nationalColumn ? { nationalColumn: r.nationalColumn } : {}), ...(r.region ? { name: r.region } : {}) });
+        t = regionalise(national, choice.basis, { method: r.method, ...(v.delta !== undefined ? { delta: v.delta } : {}), source: { file: basename(r.file), sha256: read.file.sha256 } }).table;
+      }
+      const prepared = plan.household.map((h) => {
+        const p = prepareModels(t, modelFlags(plan, pt, h));
+        if (h !== 'off' && p.closure !== 'closed') {
+          throw new UsageError(
+            `plan ${planName}: table '${v.name}' has no household closure that could be identified, but parameters.household asks for ${householdText(h)}`,
+            'closure-incomplete',
+            `Give tables[${ti}].householdColumn and tables[${ti}].labourIncomeRow, or use "off" only`,
+          );
+        }
+        return p;
+      });
+      const ms = prepared[0]!.measures;
+      tables.push({ name: v.name, delta: v.delta ?? null, n: t.sectors.codes.length, codes: [...t.sectors.codes], prepared, scenarios: resolved });
+      entries.push({ name: v.name, summary: describeTable(t), measures: ms.map((m) => ({ code: m.code, label: m.label, unit: m.unit })), sectors: t.sectors.codes.length });
+    }
   }
   const expansion = expand(plan, scenarioNames!);
   const rowsPerUnit = Math.max(...tables.map((t) => t.n * t.prepared[0]!.measures.length * plan.effects.length));
@@ -288,7 +306,7 @@ function unitRows(s: LoadedSweep, cache: ModelCache, u: WorkUnit, b: RowBuffer):
   for (const mi of im.measures) {
     const code = mi.measure.code;
     for (let i = 0; i < t.n; i++) {
-      for (const e of plan.effects) b.push(u.index, t.name, scenario, household, cv, u.draw, t.codes[i]!, code, e, mi[e][i]!, mi.unit);
+      for (const e of plan.effects) b.push(u.index, t.name, scenario, household, cv, t.delta, u.draw, t.codes[i]!, code, e, mi[e][i]!, mi.unit);
     }
   }
   return undefined;
@@ -318,6 +336,7 @@ export async function runShard(s: LoadedSweep, out: string, shard: ShardChoice, 
       seed: s.plan.seed,
       draws: s.plan.draws,
       cv: s.plan.cv,
+      ...(s.plan.delta ? { delta: s.plan.delta } : {}),
       household: s.plan.household.map(householdText),
       effects: s.plan.effects,
     },
