@@ -1,6 +1,7 @@
 /**
  * Files in and out: an input is a path or `-` (standard input), read whole (src/io's `readPath`,
- * with its size limit), with its SHA-256 (node:crypto) for the report; an output is a path or `-` (standard output), its format from
+ * with its size limit), with its SHA-256 (node:crypto) for the report, or, for a large table
+ * (`streamableInput`), streamed in chunks that are hashed as they pass; an output is a path or `-` (standard output), its format from
  * the extension or `--format`.
  *
  * Outputs are never written in place: each is written whole to a temporary file in its own
@@ -10,7 +11,8 @@
  * is one path given twice.
  */
 import { createHash, randomBytes } from 'node:crypto';
-import { chmod, mkdir, rename, stat, unlink, writeFile } from 'node:fs/promises';
+import { createReadStream } from 'node:fs';
+import { chmod, mkdir, open, rename, stat, unlink, writeFile } from 'node:fs/promises';
 import { basename, dirname, extname, join } from 'node:path';
 import { checkBytes, limitsOf } from '../io/limits';
 import { readPath } from '../io/node';
@@ -24,8 +26,11 @@ export interface InputFile {
   name: string;
   /** The absolute path, or undefined for standard input. */
   path?: string;
+  /** The file's bytes; for a file read as a stream (`streamInput`), its first bytes only. */
   bytes: Uint8Array;
   sha256: string;
+  /** The file's size, where `bytes` holds only its first bytes. */
+  size?: number;
 }
 
 interface InputSeen {
@@ -60,6 +65,13 @@ export async function readInput(ctx: CliContext, name: string, role: string): Pr
     if (!bytes.length) throw new UsageError(`the ${role} on standard input is empty`, 'empty-input');
     return { name, bytes, sha256: sha256Hex(bytes) };
   }
+  const { path } = await statInput(ctx, name, role);
+  const bytes = await readPath(path);
+  return { name, path, bytes, sha256: sha256Hex(bytes) };
+}
+
+/** A path input's folder entry (with a clear error for a missing file or a folder), noted as read. */
+async function statInput(ctx: CliContext, name: string, role: string): Promise<{ path: string; size: number }> {
   const path = absolute(ctx, name);
   let info;
   try {
@@ -72,10 +84,63 @@ export async function readInput(ctx: CliContext, name: string, role: string): Pr
   }
   if (info.isDirectory()) throw new UsageError(`the ${role} '${name}' is a folder, not a file`, 'not-a-file');
   const read = inputsRead.get(ctx) ?? [];
-  read.push({ name, role, path, dev: info.dev, ino: info.ino });
+  if (!read.some((r) => r.dev === info.dev && r.ino === info.ino && r.role === role)) read.push({ name, role, path, dev: info.dev, ino: info.ino });
   inputsRead.set(ctx, read);
-  const bytes = await readPath(path);
-  return { name, path, bytes, sha256: sha256Hex(bytes) };
+  return { path, size: info.size };
+}
+
+/** The size of a streamed input's first part (what decides how to read it, and its encoding and delimiter). */
+export const HEAD_BYTES = 65536;
+
+/** A file input that can be read as a stream: its first bytes, and `read` to stream it whole once. */
+export interface StreamableInput {
+  /** The file, with its first HEAD_BYTES in `bytes`; its `sha256` is set once `read` has finished. */
+  file: InputFile;
+  /** Stream the whole file through `reader`, chunk by chunk, hashing the chunks as they pass. */
+  read<T>(reader: (chunks: AsyncIterable<Uint8Array>) => Promise<T>): Promise<T>;
+}
+
+/**
+ * A path input of more than `minBytes`, to be read as a stream (one pass over the file, never
+ * held whole, its SHA-256 computed from the same chunks the reader sees); undefined for standard
+ * input and smaller files, which readInput reads whole.
+ */
+export async function streamableInput(ctx: CliContext, name: string, role: string, minBytes: number): Promise<StreamableInput | undefined> {
+  if (name === '-') return undefined;
+  const { path, size } = await statInput(ctx, name, role);
+  if (size <= minBytes) return undefined;
+  checkBytes(size, limitsOf(undefined).maxBytes, name);
+  const file: InputFile = { name, path, bytes: await readHead(path, HEAD_BYTES), sha256: '', size };
+  return {
+    file,
+    async read(reader) {
+      const hash = createHash('sha256');
+      let seen = 0;
+      async function* chunks(): AsyncIterable<Uint8Array> {
+        for await (const c of createReadStream(path, { highWaterMark: 1 << 20 }) as AsyncIterable<Uint8Array>) {
+          seen += c.length;
+          checkBytes(seen, limitsOf(undefined).maxBytes, name);
+          hash.update(c);
+          yield c;
+        }
+      }
+      const result = await reader(chunks());
+      file.sha256 = hash.digest('hex');
+      file.size = seen;
+      return result;
+    },
+  };
+}
+
+async function readHead(path: string, n: number): Promise<Uint8Array> {
+  const h = await open(path, 'r');
+  try {
+    const b = new Uint8Array(n);
+    const { bytesRead } = await h.read(b, 0, n, 0);
+    return b.subarray(0, bytesRead);
+  } finally {
+    await h.close();
+  }
 }
 
 function concat(chunks: Uint8Array[]): Uint8Array {
@@ -92,7 +157,7 @@ function concat(chunks: Uint8Array[]): Uint8Array {
 
 /** An input as a report states it. */
 export function reportInput(f: InputFile, role: string, sheet?: string): ReportInputFile {
-  const r: ReportInputFile = { role, name: f.name === '-' ? '(standard input)' : basename(f.name), sha256: f.sha256, bytes: f.bytes.length };
+  const r: ReportInputFile = { role, name: f.name === '-' ? '(standard input)' : basename(f.name), sha256: f.sha256, bytes: f.size ?? f.bytes.length };
   if (sheet !== undefined) r.sheet = sheet;
   return r;
 }
