@@ -6,13 +6,15 @@
  *
  * Outputs are never written in place: each is written whole to a temporary file in its own
  * folder (`.NAME.PID-RANDOM.tmp`), then renamed over the target (a rename within a folder is
- * atomic), so a kill or a failure leaves the old file as it was. An output that is one of the
+ * atomic), so a kill or a failure leaves the old file as it was; such a file left by a run that
+ * was killed is removed, with a note, by the next run writing the same output once its process
+ * has ended. An output that is one of the
  * inputs read (the same file, by device and inode, through any name or link) is refused, and so
  * is one path given twice.
  */
 import { createHash, randomBytes } from 'node:crypto';
 import { createReadStream } from 'node:fs';
-import { chmod, mkdir, open, rename, stat, unlink, writeFile } from 'node:fs/promises';
+import { chmod, mkdir, open, readdir, rename, stat, unlink, writeFile } from 'node:fs/promises';
 import { basename, dirname, extname, join } from 'node:path';
 import { checkBytes, limitsOf } from '../io/limits';
 import { readPath } from '../io/node';
@@ -20,6 +22,7 @@ import type { ReportInputFile } from '../report/model';
 import type { CliContext } from './context';
 import { absolute } from './context';
 import { UsageError } from './errors';
+import { terminalSafe } from './text';
 
 export interface InputFile {
   /** The name as given (`-` for standard input). */
@@ -202,6 +205,7 @@ export async function stageOutput(ctx: CliContext, out: string, data: string | U
   const path = absolute(ctx, out);
   const dir = dirname(path);
   await mkdir(dir, { recursive: true });
+  await removeLeftovers(ctx, dir, basename(path));
   const temp = join(dir, `.${basename(path)}.${process.pid}-${randomBytes(4).toString('hex')}.tmp`);
   try {
     await writeFile(temp, bytes, { flag: 'wx' });
@@ -218,6 +222,41 @@ export async function stageOutput(ctx: CliContext, out: string, data: string | U
     commit: () => rename(temp, path),
     discard: () => unlink(temp).catch(() => {}),
   };
+}
+
+/**
+ * Remove the temporary files of this output that a run killed while writing left behind
+ * (`.NAME.PID-RANDOM.tmp`, as stageOutput names them), with a note: only those of the same NAME
+ * whose process has ended. A file whose process is alive (another run writing now, or a reused
+ * process number) is left alone, and so is anything that does not follow the pattern exactly.
+ */
+async function removeLeftovers(ctx: CliContext, dir: string, name: string): Promise<void> {
+  const entries = await readdir(dir).catch(() => [] as string[]);
+  const prefix = `.${name}.`;
+  for (const e of entries) {
+    if (!e.startsWith(prefix)) continue;
+    const m = /^(\d+)-[0-9a-f]{8}\.tmp$/.exec(e.slice(prefix.length));
+    if (!m) continue;
+    const pid = Number(m[1]);
+    if (pid === process.pid || processAlive(pid)) continue;
+    try {
+      await unlink(join(dir, e));
+      ctx.stderr.write(`note: removed ${terminalSafe(e)}, a temporary file left in ${terminalSafe(dir)} by a run that ended while writing (process ${pid})\n`);
+    } catch {
+      /* removed by another run meanwhile, or not ours to remove: left as it is */
+    }
+  }
+}
+
+/** Whether a process of this number exists (EPERM: it exists, under another user). */
+function processAlive(pid: number): boolean {
+  if (!Number.isSafeInteger(pid) || pid <= 0) return true;
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (e) {
+    return (e as NodeJS.ErrnoException).code !== 'ESRCH';
+  }
 }
 
 /** Write text or bytes to a file (through a temporary file, then renamed) or to standard output for `-`. */
