@@ -1,7 +1,7 @@
 /**
  * Files in and out: an input is a path or `-` (standard input), read whole (src/io's `readPath`,
  * with its size limit), with its SHA-256 (node:crypto) for the report, or, for a large table
- * (`streamableInput`), streamed in chunks that are hashed as they pass; an output is a path or `-` (standard output), its format from
+ * (`openInput`), streamed in chunks that are hashed as they pass; an output is a path or `-` (standard output), its format from
  * the extension or `--format`.
  *
  * Outputs are never written in place: each is written whole to a temporary file in its own
@@ -54,12 +54,12 @@ export function sha256Hex(bytes: Uint8Array): string {
 /** Read an input file whole (or standard input for `-`), with a clear error for a missing file. */
 export async function readInput(ctx: CliContext, name: string, role: string): Promise<InputFile> {
   if (name === '-') {
-    if (ctx.stdin.isTTY) throw new UsageError(`the ${role} is '-' (standard input), but standard input is a terminal`, 'stdin-tty', 'Pipe the file in, as in: ripplewise check - < table.csv');
+    if (ctx.stdin.isTTY) throw stdinIsTerminal(role);
     const chunks: Uint8Array[] = [];
     const max = limitsOf(undefined).maxBytes;
     let total = 0;
     for await (const c of ctx.stdin) {
-      const b = typeof c === 'string' ? new TextEncoder().encode(c) : c;
+      const b = asBytes(c);
       total += b.length;
       checkBytes(total, max, 'standard input');
       chunks.push(b);
@@ -95,34 +95,74 @@ async function statInput(ctx: CliContext, name: string, role: string): Promise<{
 /** The size of a streamed input's first part (what decides how to read it, and its encoding and delimiter). */
 export const HEAD_BYTES = 65536;
 
-/** A file input that can be read as a stream: its first bytes, and `read` to stream it whole once. */
+/** An input that can be read as a stream: its first bytes, and `read` to stream it whole, once. */
 export interface StreamableInput {
-  /** The file, with its first HEAD_BYTES in `bytes`; its `sha256` is set once `read` has finished. */
+  /** The input, with its first bytes (at most HEAD_BYTES) in `bytes`; `sha256` and `size` are set once `read` has finished. */
   file: InputFile;
-  /** Stream the whole file through `reader`, chunk by chunk, hashing the chunks as they pass. */
+  /** Stream the whole input through `reader`, chunk by chunk, hashing the chunks as they pass (once only). */
   read<T>(reader: (chunks: AsyncIterable<Uint8Array>) => Promise<T>): Promise<T>;
 }
 
 /**
- * A path input of more than `minBytes`, to be read as a stream (one pass over the file, never
- * held whole, its SHA-256 computed from the same chunks the reader sees); undefined for standard
- * input and smaller files, which readInput reads whole.
+ * An input to be read as a stream when it is larger than `minBytes` (one pass, never held whole,
+ * its SHA-256 computed from the same chunks the reader sees): a file by its size, standard input
+ * once more than `minBytes` have come. A smaller input is read whole, as readInput reads it.
  */
-export async function streamableInput(ctx: CliContext, name: string, role: string, minBytes: number): Promise<StreamableInput | undefined> {
-  if (name === '-') return undefined;
-  const { path, size } = await statInput(ctx, name, role);
-  if (size <= minBytes) return undefined;
-  checkBytes(size, limitsOf(undefined).maxBytes, name);
-  const file: InputFile = { name, path, bytes: await readHead(path, HEAD_BYTES), sha256: '', size };
+export async function openInput(ctx: CliContext, name: string, role: string, minBytes: number): Promise<InputFile | StreamableInput> {
+  const max = limitsOf(undefined).maxBytes;
+  if (name !== '-') {
+    const { path, size } = await statInput(ctx, name, role);
+    if (size <= minBytes) return readInput(ctx, name, role);
+    checkBytes(size, max, name);
+    return streamOf({ name, path, bytes: await readHead(path, HEAD_BYTES), sha256: '', size }, () => createReadStream(path, { highWaterMark: 1 << 20 }) as AsyncIterable<Uint8Array>);
+  }
+  if (ctx.stdin.isTTY) throw stdinIsTerminal(role);
+  const it = ctx.stdin[Symbol.asyncIterator]();
+  const first: Uint8Array[] = [];
+  let total = 0;
+  while (total <= minBytes) {
+    const next = await it.next();
+    if (next.done) {
+      const bytes = concat(first);
+      if (!bytes.length) throw new UsageError(`the ${role} on standard input is empty`, 'empty-input');
+      return { name, bytes, sha256: sha256Hex(bytes) };
+    }
+    const b = asBytes(next.value);
+    total += b.length;
+    checkBytes(total, max, 'standard input');
+    first.push(b);
+  }
+  const head = concat(first);
+  return streamOf({ name, bytes: head.slice(0, HEAD_BYTES), sha256: '' }, async function* () {
+    yield head;
+    for (let next = await it.next(); !next.done; next = await it.next()) yield asBytes(next.value);
+  });
+}
+
+/** A streamed input read whole after all (it is not a CSV file). */
+export async function wholeInput(s: StreamableInput): Promise<InputFile> {
+  const parts: Uint8Array[] = [];
+  await s.read(async (chunks) => {
+    for await (const c of chunks) parts.push(c);
+  });
+  const { name, path, sha256 } = s.file;
+  return path === undefined ? { name, bytes: concat(parts), sha256 } : { name, path, bytes: concat(parts), sha256 };
+}
+
+function streamOf(file: InputFile, source: () => AsyncIterable<Uint8Array>): StreamableInput {
+  let used = false;
+  const label = file.name === '-' ? 'standard input' : file.name;
   return {
     file,
     async read(reader) {
+      if (used) throw new Error(`${label} was read as a stream already`);
+      used = true;
       const hash = createHash('sha256');
       let seen = 0;
       async function* chunks(): AsyncIterable<Uint8Array> {
-        for await (const c of createReadStream(path, { highWaterMark: 1 << 20 }) as AsyncIterable<Uint8Array>) {
+        for await (const c of source()) {
           seen += c.length;
-          checkBytes(seen, limitsOf(undefined).maxBytes, name);
+          checkBytes(seen, limitsOf(undefined).maxBytes, label);
           hash.update(c);
           yield c;
         }
@@ -133,6 +173,14 @@ export async function streamableInput(ctx: CliContext, name: string, role: strin
       return result;
     },
   };
+}
+
+function asBytes(c: Uint8Array | string): Uint8Array {
+  return typeof c === 'string' ? new TextEncoder().encode(c) : c;
+}
+
+function stdinIsTerminal(role: string): UsageError {
+  return new UsageError(`the ${role} is '-' (standard input), but standard input is a terminal`, 'stdin-tty', 'Pipe the file in, as in: ripplewise check - < table.csv');
 }
 
 async function readHead(path: string, n: number): Promise<Uint8Array> {

@@ -17,7 +17,7 @@ import { PROJECT_FORMAT, readProject } from '../project/project';
 import type { CliContext } from './context';
 import { UsageError } from './errors';
 import type { InputFile } from './files';
-import { readInput, streamableInput } from './files';
+import { openInput, readInput, wholeInput } from './files';
 
 export type InputFormat = 'json' | 'csv' | 'tsv' | 'xlsx';
 export const INPUT_FORMATS: readonly InputFormat[] = ['json', 'csv', 'tsv', 'xlsx'];
@@ -148,11 +148,11 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     throw new UsageError(`--table-kind must be flows or coefficients; got '${flags.tableKind}'`, 'bad-table-kind');
   }
   const { mapping, file: mappingFile } = await loadMapping(ctx, flags.mapping);
-  // A large CSV is read as a stream (never held whole; its hash from the same chunks); other
-  // files, and standard input, are read whole.
-  const stream = format === undefined || format === 'csv' || format === 'tsv' ? await streamableInput(ctx, name, 'table', SCANNER_THRESHOLD) : undefined;
-  const streamed = stream && sniffFile(stream.file.bytes, ioName(stream.file, format)) === 'csv' && firstChar(stream.file.bytes) !== '{' ? stream : undefined;
-  const file = streamed?.file ?? (await readInput(ctx, name, 'table'));
+  // A large CSV, from a file or standard input, is read as a stream (never held whole; its hash
+  // from the same chunks); other inputs are read whole.
+  const opened = format === undefined || format === 'csv' || format === 'tsv' ? await openInput(ctx, name, 'table', SCANNER_THRESHOLD) : await readInput(ctx, name, 'table');
+  const streamed = 'read' in opened && sniffFile(opened.file.bytes, ioName(opened.file, format)) === 'csv' && firstChar(opened.file.bytes) !== '{' ? opened : undefined;
+  const file = streamed ? streamed.file : 'read' in opened ? await wholeInput(opened) : opened;
   const extra = mappingFile ? [{ role: 'mapping', file: mappingFile }] : [];
   const looksJson = format === 'json' || (format === undefined && firstChar(file.bytes) === '{');
   if (looksJson) {
