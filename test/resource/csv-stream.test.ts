@@ -100,6 +100,18 @@ describe('a large CSV read as a stream', () => {
     );
   }, 120_000);
 
+  it('takes the encoding from the first 64 KiB, whole or in chunks: a later byte that is not UTF-8 is an error naming its cell', async () => {
+    // 'é' in Windows-1252 (0xE9) in a label near the end, where the first 64 KiB are UTF-8.
+    const at = bytes.lastIndexOf(0x43, bytes.length - 5000); // a 'C' of 'Café' in a late row
+    expect(at).toBeGreaterThan(65536);
+    const bad = bytes.slice();
+    bad.set([0x43, 0x61, 0x66, 0xe9], at);
+    const whole = await readTableFile(bad, { file: 'late.csv' }).then(() => undefined, (e: Error) => e.message);
+    const chunked = await readTableCsvStream(pieces(bad, [70_000, at + 2]), { file: 'late.csv' }).then(() => undefined, (e: Error) => e.message);
+    expect(whole).toMatch(/^file late\.csv, cell [A-Z]+\d+: the bytes are not valid UTF-8/);
+    expect(chunked).toBe(whole);
+  }, 60_000);
+
   it('the command streams it from disk: the same table as the whole read, the SHA-256 and size of the whole file', async () => {
     const dir = tempDir();
     const path = join(dir, 'big.csv');
