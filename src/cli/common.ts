@@ -1,6 +1,4 @@
 /** Pieces every subcommand uses: output and input options, examples in help, the checked table, report parts. */
-import { readFileSync } from 'node:fs';
-import type { Command } from 'commander';
 import { checks } from '../../engine/checks';
 import type { Finding } from '../../engine/findings';
 import { hasErrors } from '../../engine/findings';
@@ -16,51 +14,12 @@ import type { LoadedTable, TableFlags } from './table-input';
 import { loadTable } from './table-input';
 import { rangeFindings } from './finite';
 
-const pkg = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { name: string; version: string };
-
-export const TOOL = { name: 'ripplewise', version: pkg.version } as const;
+// The option declarations live in ./options (loaded at start-up without the readers and the engine).
+export { collect, examples, outputOptions, tableOptions, TOOL } from './options';
+import { TOOL } from './options';
 
 export interface CommonFlags extends OutputOptions, TableFlags {
   locale?: string;
-}
-
-/** Commander's collector for a repeatable option. */
-export function collect(v: string, prev: string[] | undefined): string[] {
-  return [...(prev ?? []), v];
-}
-
-/** --out (repeatable), --format, --json and, for reports, --locale. */
-export function outputOptions(cmd: Command, formats: readonly OutputFormat[], o: { locale?: boolean } = {}): Command {
-  cmd
-    .option('-o, --out <file>', `write the result to a file (repeatable; the format from the extension: ${formats.map((f) => `.${f}`).join(', ')}; '-' for standard output)`, collect)
-    .option('-f, --format <format>', `output format: ${formats.join('|')} (default: from the --out extension)`)
-    .option('--json', 'print the machine-readable result as JSON on standard output');
-  if (o.locale) cmd.option('--locale <tag>', 'locale of the numbers shown in HTML reports, such as en-GB or de-DE (default en)');
-  return cmd;
-}
-
-/** --sheet, --mapping and --input-format for a command that reads a table. */
-export function tableOptions(cmd: Command): Command {
-  return cmd
-    .option('--sheet <name>', 'the sheet of an XLSX workbook to read (default: the first that holds a table)')
-    .option('--mapping <file>', 'a layout mapping (JSON) that overrides the detected layout of the table')
-    .option('--input-format <format>', 'json|csv|tsv|xlsx (default: from the contents and the extension)')
-    .option('--shape <shape>', 'wide|long: a wide sheet or a long file of row code, column code and value (default: detected)')
-    .option('--blanks <rule>', 'empty cells in the table: error or zero (default: zero in spreadsheets, error in text files)')
-    .option('--select <field=value>', 'long files: read only the lines whose field (a header name or a number from 1) holds this text, such as TIME_PERIOD=2020 (repeatable)', collect)
-    .option('--zero-text <text>', "a text that means zero in the table's cells, such as - or .. (repeatable; default: none, such cells are errors)", collect)
-    .option('--decimal <mark>', "the decimal mark of a CSV or TSV file: '.' or ',' (default: seen in the numbers)")
-    .option('--encoding <name>', 'the text encoding of a CSV or TSV file: utf-8, windows-1252, utf-16le or utf-16be (default: from a byte-order mark, else UTF-8, else Windows-1252 with a warning)')
-    .option('--thousands <separator>', "the thousands separator: one character, such as ',' '.' or ' ', or 'none' (default: seen in the numbers)")
-    .option('--table-kind <kind>', 'flows|coefficients: transactions, or technical coefficients A (default: detected)')
-    .option('--labels <file>', 'a list of codes and titles (CSV, TSV, XLSX or lines of code and title) for a table that carries codes only')
-    .option('--satellite-file <file>', 'employment, emissions or other values by sector from another file: sector codes in one column, one or more value columns, the unit in a unit row, in brackets or in the heading (repeatable)', collect);
-}
-
-/** Examples at the end of a command's help. */
-export function examples(cmd: Command, lines: [string, string][]): Command {
-  const w = Math.max(...lines.map(([c]) => c.length));
-  return cmd.addHelpText('after', `\nExamples:\n${lines.map(([c, d]) => `  $ ${c.padEnd(w)}  ${d}`).join('\n')}\n`);
 }
 
 /** The locale for reports, checked. */

@@ -4,28 +4,27 @@
  * throws; bin/ripplewise.mjs sets it as the process's exit code.
  */
 import { Command, CommanderError } from 'commander';
-import { TOOL } from './common';
+import { TOOL } from './options';
 import type { CliContext } from './context';
 import { processContext, styles, useColour } from './context';
 import { EXIT_OK, EXIT_USAGE, errorReport } from './errors';
-import { jsonText } from './output';
-import { terminalSafe } from './text';
+import { jsonText, terminalSafe } from './text';
 import { parseLimits, setLimits } from '../io/limits';
-import { register as aggregate } from './commands/aggregate';
-import { register as check } from './commands/check';
-import { register as coefficients } from './commands/coefficients';
-import { register as convert } from './commands/convert';
-import { register as extract } from './commands/extract';
-import { register as impact } from './commands/impact';
-import { register as linkages } from './commands/linkages';
-import { register as multipliers } from './commands/multipliers';
-import { register as price } from './commands/price';
-import { register as report } from './commands/report';
-import { register as requirements } from './commands/requirements';
-import { register as uncertainty } from './commands/uncertainty';
-import { register as regionalise } from './commands/regionalise';
-import { register as balance } from './commands/balance';
-import { register as sweep } from './commands/sweep';
+import { register as aggregate } from './register/aggregate';
+import { register as check } from './register/check';
+import { register as coefficients } from './register/coefficients';
+import { register as convert } from './register/convert';
+import { register as extract } from './register/extract';
+import { register as impact } from './register/impact';
+import { register as linkages } from './register/linkages';
+import { register as multipliers } from './register/multipliers';
+import { register as price } from './register/price';
+import { register as report } from './register/report';
+import { register as requirements } from './register/requirements';
+import { register as uncertainty } from './register/uncertainty';
+import { register as regionalise } from './register/regionalise';
+import { register as balance } from './register/balance';
+import { register as sweep } from './register/sweep';
 
 /** A command's action: it returns its exit code. */
 export type Action = (ctx: CliContext) => Promise<number>;

@@ -3,7 +3,6 @@
  * guesses from labels are the defaults, and the report says which were guessed), and the
  * measures (jobs satellite, other satellites, value-added rows).
  */
-import type { Command } from 'commander';
 import { InputError } from '../../engine/errors';
 import type { HouseholdOptions, Models } from '../../engine/household';
 import { buildModels, householdClosure, CLOSURE_BASES, CLOSURE_BASIS_ABOUT, closureBasis, guessHouseholdColumn, guessLabourIncomeRow } from '../../engine/household';
@@ -18,6 +17,9 @@ import type { ReportSetting } from '../report/model';
 import { modelAssumptions, setting } from '../report/model';
 import { ChecksFailed, UsageError } from './errors';
 
+// Declared in ./options (loaded at start-up without the engine's models).
+export { modelOptions } from './options';
+
 export interface ModelFlags {
   household?: boolean;
   householdColumn?: string;
@@ -31,23 +33,6 @@ export interface ModelFlags {
   satellites?: string;
   valueAddedRows?: string;
   measure?: string;
-}
-
-/** Add the household and measure options to a command. */
-export function modelOptions(cmd: Command): Command {
-  return cmd
-    .option('--household-column <code>', 'final-demand column of household consumption for the Type II closure (default: guessed from the labels)')
-    .option('--labour-income-row <codes>', 'value-added row(s) of labour income, comma-separated (default: guessed from the labels)')
-    .option('--propensity <share>', 'share of household income spent in the economy, 0 to 1: the household column is this share × the consumption column\'s own shares (basis propensity)')
-    .option('--household-income <amount>', "household income that household spending is divided by, in the table's money units (basis household-income; for agencies that divide by an income not in the table)")
-    .option('--household-basis <basis>', `what household spending is divided by: ${CLOSURE_BASES.join('|')} (default: labour-income, or the basis of --propensity or --household-income)`)
-    .option('--household-own-purchases <amount>', "households' purchases from households (the corner cell of a closed table), in the table's money units (default 0)")
-    .option('--split <parts>', 'rounds: split the indirect effect into the first round (A\'s column sums, weighted by the measure) and the later rounds (industrial support)')
-    .option('--no-household', 'open model only: no induced effects, no Type II')
-    .option('--jobs <code>', 'the satellite row that counts jobs (default: guessed from its label or unit)')
-    .option('--satellites <codes>', 'satellite rows to count as measures, comma-separated (default: all)')
-    .option('--value-added-rows <codes>', 'value-added rows summed as value added, comma-separated (default: all)')
-    .option('--measure <codes>', 'only these measures, comma-separated codes such as output,value-added,JOBS');
 }
 
 export function list(v: string | undefined): string[] | undefined {

@@ -11,7 +11,10 @@ import { ResultNotFinite, UsageError } from './errors';
 import { infiniteFindings } from './finite';
 import type { OutputFormat } from './files';
 import { checkOutputTargets, outputFormat, type StagedOutput, stageOutput } from './files';
-import { terminalSafe } from './text';
+import { jsonText, terminalSafe } from './text';
+
+// In ./text so that main.ts can print a JSON error without loading the writers.
+export { jsonText } from './text';
 
 export type Writer = () => Promise<string | Uint8Array> | string | Uint8Array;
 
@@ -54,20 +57,6 @@ export function planOutputs(o: OutputOptions, allowed: readonly OutputFormat[]):
   return plan;
 }
 
-/** JSON with NaN and infinities as null and typed arrays as lists. */
-export function jsonText(v: unknown): string {
-  return (
-    JSON.stringify(
-      v,
-      (_k, x) => {
-        if (typeof x === 'number' && !Number.isFinite(x)) return null;
-        if (ArrayBuffer.isView(x) && !(x instanceof DataView)) return Array.from(x as unknown as ArrayLike<number>, (y) => (Number.isFinite(y) ? y : null));
-        return x;
-      },
-      2,
-    ) + '\n'
-  );
-}
 
 /**
  * Write the planned outputs, then print the JSON result, the text, or where the files went. Every

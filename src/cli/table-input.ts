@@ -8,15 +8,16 @@ import { InputError } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
 import type { Table } from '../../engine/table';
 import { makeTable } from '../../engine/table';
-import type { MappingInput } from '../io/index';
-import { applyLabels, attachSatellites, parseMapping, readGrid, readLabelList, readSatellites, readTableFile } from '../io/index';
+import type { MappingInput, ReadFileOptions } from '../io/index';
+import { applyLabels, attachSatellites, parseMapping, readGrid, readLabelList, readSatellites, readTableCsvStream, readTableFile, sniffFile } from '../io/index';
+import { SCANNER_THRESHOLD } from '../io/csv';
 import { checkSectors } from '../io/limits';
 import { parseJson } from '../project/json';
 import { PROJECT_FORMAT, readProject } from '../project/project';
 import type { CliContext } from './context';
 import { UsageError } from './errors';
 import type { InputFile } from './files';
-import { readInput } from './files';
+import { openInput, readInput, wholeInput } from './files';
 
 export type InputFormat = 'json' | 'csv' | 'tsv' | 'xlsx';
 export const INPUT_FORMATS: readonly InputFormat[] = ['json', 'csv', 'tsv', 'xlsx'];
@@ -147,7 +148,11 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     throw new UsageError(`--table-kind must be flows or coefficients; got '${flags.tableKind}'`, 'bad-table-kind');
   }
   const { mapping, file: mappingFile } = await loadMapping(ctx, flags.mapping);
-  const file = await readInput(ctx, name, 'table');
+  // A large CSV, from a file or standard input, is read as a stream (never held whole; its hash
+  // from the same chunks); other inputs are read whole.
+  const opened = format === undefined || format === 'csv' || format === 'tsv' ? await openInput(ctx, name, 'table', SCANNER_THRESHOLD) : await readInput(ctx, name, 'table');
+  const streamed = 'read' in opened && sniffFile(opened.file.bytes, ioName(opened.file, format)) === 'csv' && firstChar(opened.file.bytes) !== '{' ? opened : undefined;
+  const file = streamed ? streamed.file : 'read' in opened ? await wholeInput(opened) : opened;
   const extra = mappingFile ? [{ role: 'mapping', file: mappingFile }] : [];
   const looksJson = format === 'json' || (format === undefined && firstChar(file.bytes) === '{');
   if (looksJson) {
@@ -166,7 +171,7 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
   const select = selectOption(flags.select);
   const zeroTexts = flags.zeroText?.length ? flags.zeroText.map((t) => t.trim()).filter(Boolean) : undefined;
   if (select && flags.shape === 'wide') throw new UsageError('--select applies to long files; this one is read as wide (--shape wide)', 'select-not-long');
-  const r = await readTableFile(file.bytes, {
+  const options: ReadFileOptions = {
     file: ioName(file, format),
     ...numbers,
     ...(encoding ? { encoding } : {}),
@@ -179,7 +184,8 @@ export async function loadTable(ctx: CliContext, name: string, flags: TableFlags
     ...(blanks ? { blanks } : {}),
     ...(select ? { shape: flags.shape === 'wide' ? 'wide' : ('long' as const) } : {}),
     ...(flags.tableKind ? { kind: flags.tableKind as 'flows' | 'coefficients' } : {}),
-  });
+  };
+  const r = streamed ? await streamed.read((chunks) => readTableCsvStream(chunks, options)) : await readTableFile(file.bytes, options);
   checkSectors(r.table.sectors.codes.length, name);
   let table = r.table;
   const findings = [...r.findings];

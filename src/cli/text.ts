@@ -55,3 +55,18 @@ export function terminalSafe(s: string): string {
   });
   return safe.indexOf(COLOUR_MARK) < 0 ? safe : safe.split(COLOUR_MARK).join('\u001b[');
 }
+
+/** JSON with NaN and infinities as null and typed arrays as lists. */
+export function jsonText(v: unknown): string {
+  return (
+    JSON.stringify(
+      v,
+      (_k, x) => {
+        if (typeof x === 'number' && !Number.isFinite(x)) return null;
+        if (ArrayBuffer.isView(x) && !(x instanceof DataView)) return Array.from(x as unknown as ArrayLike<number>, (y) => (Number.isFinite(y) ? y : null));
+        return x;
+      },
+      2,
+    ) + '\n'
+  );
+}

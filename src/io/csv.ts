@@ -382,7 +382,13 @@ export class StreamingCsv {
       this.bom = true;
       head = head.subarray(bom.length);
     } else if (this.options.encoding) encoding = this.options.encoding;
-    else encoding = decodeBytes(final ? head : trimPartial(head), file).encoding;
+    else {
+      // The encoding from a sample, the first 64 KiB (a character cut at its end left out), however
+      // the bytes come: decoding a whole file of more than 512 MiB at once is beyond V8's string
+      // length. A later byte that is not UTF-8 is then an error naming its cell.
+      const sample = head.subarray(0, 65536);
+      encoding = decodeBytes(final && head.length <= 65536 ? sample : trimPartial(sample), file).encoding;
+    }
     this.encoding = encoding;
     if (encoding === 'utf-16le' || encoding === 'utf-16be') this.transcoder = new Transcoder(encoding);
     const sampleText = new TextDecoder(encoding).decode(head.subarray(0, 65536 * (this.transcoder ? 2 : 1))).replace(/\r\n?/g, '\n');

@@ -54,3 +54,4 @@ export { unpackKeyed, unpackIfKeyed } from './keyed';
 export type { Unpacked } from './keyed';
 export { crossCheckPublished, type PublishedComparison } from './published';
 export { readLabelList, applyLabels } from './labels';
+export { readTableCsvStream } from './open';

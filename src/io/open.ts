@@ -5,7 +5,7 @@
  */
 import { InputError } from '../../engine/errors';
 import type { Finding } from '../../engine/findings';
-import { type CsvOptions, readCsv } from './csv';
+import { type CsvOptions, readCsv, readCsvStream } from './csv';
 import { EMPTY, type Grid, normalizeCode, NUMBER, TEXT } from './grid';
 import { readTableJson } from './json';
 import { unpackIfKeyed } from './keyed';
@@ -168,7 +168,22 @@ export async function readTableFile(bytes: Uint8Array, options: ReadFileOptions)
     const table = readTableJson(new TextDecoder().decode(bytes), options.file);
     return { table, mapping: { format: 'ripplewise-layout', version: 1, kind: 'flows', shape: 'wide', file: options.file, rows: [], columns: [], output: { from: 'column', code: 'x' }, blanks: 'error' }, findings: [], shape: 'json' };
   }
-  const g = await readGrid(bytes, options);
+  return tableOfGrid(await readGrid(bytes, options), options);
+}
+
+/**
+ * Read a table from a CSV file given as a stream of byte chunks (a file read piece by piece), so
+ * the file is never held whole: the byte scanner reads the chunks as they come (the encoding and
+ * the delimiter from the first 64 KiB). The same table, findings and layout as readTableFile on
+ * the file's bytes, which reads a CSV above SCANNER_THRESHOLD through the same scanner.
+ */
+export async function readTableCsvStream(chunks: AsyncIterable<Uint8Array>, options: ReadFileOptions): Promise<TableRead & { shape: 'wide' | 'long' }> {
+  const c = await readCsvStream(chunks, options);
+  return tableOfGrid(unpackIfKeyed({ grid: c.grid, kind: 'csv', conventions: { ...c.conventions }, findings: c.findings }), options);
+}
+
+/** The table of a sheet read as a grid: wide, or long when it is long (given or detected). */
+function tableOfGrid(g: GridRead, options: ReadFileOptions): TableRead & { shape: 'wide' | 'long' } {
   const shape = options.shape ?? options.mapping?.shape ?? guessShape(g.grid);
   if (shape === 'long') {
     const lo: Omit<LongOptions, 'file'> = { ...(options.decimal ? { decimal: options.decimal } : {}), ...(options.thousands !== undefined ? { thousands: options.thousands } : {}), ...(options.long ?? {}) };

@@ -9,7 +9,7 @@
  * Generated files go to the temporary folder (RIPPLEWISE_BENCH_TMP moves it).
  */
 import { spawnSync } from 'node:child_process';
-import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { closeSync, existsSync, mkdirSync, openSync, readFileSync, rmSync, statSync, writeFileSync, writeSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join, resolve } from 'node:path';
 import { zipSync } from 'fflate';
@@ -127,3 +127,42 @@ table(
 );
 const matrixMB = (N * N * 9) / 1e6;
 target(`XLSX peak memory within 3× the grid (${matrixMB.toFixed(0)} MB of values and kinds) plus the file`, xl.rssMB <= 3 * matrixMB + 200, `${xl.rssMB.toFixed(0)} MB`);
+
+// 4. A CSV table of ~600 MB (BENCH_SCALE scales it) through the command's reading path
+// (src/cli/table-input.ts loadTable: streamed from disk through the byte scanner, hashed as the
+// chunks pass), against the whole-file path on the same file (read whole, then readTableFile),
+// each in a process of its own; the file is made in the temporary folder and deleted afterwards.
+{
+  const n = Math.min(10_000, Math.round(Number(process.env.BENCH_CSV_SECTORS ?? 9000) * Math.sqrt(SCALE)));
+  const file = join(DIR, `table-${n}.csv`);
+  const started = performance.now();
+  const fd = openSync(file, 'w');
+  writeSync(fd, ['code', 'label', ...Array.from({ length: n }, (_, j) => `S${j}`), 'HH', 'x'].join(',') + '\n');
+  for (let i = 0; i < n; i++) {
+    let row = `S${i},"Sector ${i}, invented"`;
+    let sum = 0;
+    for (let j = 0; j < n; j++) {
+      const v = ((i * 7919 + j * 104729) % 100000) / 1000;
+      sum += v;
+      row += `,${v}`;
+    }
+    writeSync(fd, `${row},100,${(sum + 100).toFixed(3)}\n`);
+  }
+  writeSync(fd, ['VA', 'Value added', ...Array.from({ length: n }, () => '1000'), '', ''].join(',') + '\n');
+  closeSync(fd);
+  const size = statSync(file).size;
+  console.log(`generated ${file}: ${n} sectors, ${(size / 1e6).toFixed(0)} MB in ${((performance.now() - started) / 1000).toFixed(1)} s`);
+  const f = JSON.stringify(file);
+  const streamed = child(`import { processContext } from '../../src/cli/context'; import { loadTable } from '../../src/cli/table-input'; const t = await loadTable(processContext(), ${f}, {}); console.log(t.table.sectors.codes.length + ' sectors, sha256 ' + t.file.sha256.slice(0, 12));`, 600_000);
+  const whole = child(`import { processContext } from '../../src/cli/context'; import { readInput } from '../../src/cli/files'; import { readTableFile } from '../../src/io/open'; const b = await readInput(processContext(), ${f}, 'table'); const t = await readTableFile(b.bytes, { file: 'table.csv' }); console.log(t.table.sectors.codes.length + ' sectors, sha256 ' + b.sha256.slice(0, 12));`, 600_000);
+  rmSync(file);
+  const matrixMB = (n * n * 8) / 1e6;
+  table(
+    [`CSV ${(size / 1e6).toFixed(0)} MB, ${n} sectors (own process, incl. tsx)`, 'ms', 'peak MB', 'result'],
+    [
+      ['streamed (the command: loadTable)', streamed.ms, streamed.rssMB, streamed.out],
+      ['whole file (readInput + readTableFile)', whole.ms, whole.rssMB, whole.out],
+    ],
+  );
+  target(`large CSV peak memory within 3× the matrix bytes (${matrixMB.toFixed(0)} MB)`, streamed.rssMB <= 3 * matrixMB, `${streamed.rssMB.toFixed(0)} MB = ${(streamed.rssMB / matrixMB).toFixed(2)}×`);
+}

@@ -30,4 +30,21 @@ describe('the compiled command', () => {
     expect(bad.stderr).toBe(badSources.stderr);
     expect(readFileSync(join(ROOT, 'dist/cli/main.mjs'), 'utf8')).not.toMatch(/from ['"]tsx/);
   }, 60_000);
+
+  it.runIf(buildIsCurrent())('starts without the readers, the report writers or the heavy libraries, with the help of the sources', async () => {
+    // sources.json lists the source files in main.mjs and the chunks it imports statically (what
+    // every start parses); each command's own module is a chunk loaded only when it runs.
+    const { startup } = JSON.parse(readFileSync(join(ROOT, 'dist/cli/sources.json'), 'utf8')) as { startup: { inputs: string[] } };
+    expect(startup.inputs).toContain('src/cli/register/multipliers.ts');
+    const heavy = startup.inputs.filter((f) => /^src\/(io|report|project|sweep)\//.test(f) && !/^src\/io\/limits\.ts$|^src\/sweep\/templates\//.test(f));
+    expect(heavy).toEqual([]);
+    expect(startup.inputs.filter((f) => /^src\/cli\/commands\//.test(f))).toEqual([]);
+    expect(startup.inputs.filter((f) => f.includes('node_modules/') && !f.includes('node_modules/commander/'))).toEqual([]);
+    for (const args of [['--help'], ['multipliers', '--help'], ['sweep', 'template', '--help'], ['multipliers', '--no-such-option']]) {
+      const [compiled, sources] = await Promise.all([spawnCli(args), spawnCli(args, { env: { RIPPLEWISE_SOURCES: '1' } })]);
+      expect(compiled.code).toBe(sources.code);
+      expect(compiled.stdout).toBe(sources.stdout);
+      expect(compiled.stderr).toBe(sources.stderr);
+    }
+  }, 60_000);
 });

@@ -1,47 +1,26 @@
 /** `ripplewise aggregate TABLE --concordance FILE --out FILE`: the same economy with fewer sectors. */
-import type { Command } from 'commander';
 import { AGGREGATE_ABOUT, aggregate } from '../../../engine/aggregate';
 import { checks } from '../../../engine/checks';
 import { moneyUnit } from '../../../engine/table';
 import { readConcordanceGrid, readConcordanceJson, readGrid } from '../../io/index';
 import { buildReport, checksSection, matrixSection, setting } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { examples, outputOptions, reportBase, reportInputs, tableOptions } from '../common';
+import { reportBase, reportInputs } from '../common';
 import type { CliContext } from '../context';
 import { UsageError } from '../errors';
 import { readInput, reportInput } from '../files';
-import type { Action } from '../main';
 import { deliver, planOutputs } from '../output';
 import { loadTable } from '../table-input';
 import { tableJson, tableWriters } from '../table-out';
 import { textTable } from '../text';
+import { FORMATS } from '../register/aggregate';
 
-interface Flags extends CommonFlags {
+export interface Flags extends CommonFlags {
   concordance?: string;
   concordanceSheet?: string;
 }
 
-const FORMATS = ['csv', 'tsv', 'xlsx', 'json', 'html'] as const;
-
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p
-    .command('aggregate')
-    .summary('Aggregate sectors into groups with a concordance')
-    .argument('<table>', "the detailed table ('-' for standard input)")
-    .description(AGGREGATE_ABOUT)
-    .requiredOption('-c, --concordance <file>', 'the concordance: a sheet (code, group, optional group label) or JSON')
-    .option('--concordance-sheet <name>', 'the sheet of a concordance workbook');
-  tableOptions(cmd);
-  outputOptions(cmd, FORMATS, { locale: true });
-  examples(cmd, [
-    ['ripplewise aggregate detailed.csv --concordance groups.csv --out aggregated.csv', 'sum sectors into groups'],
-    ['ripplewise aggregate detailed.xlsx --concordance map.json --out small.xlsx', 'a JSON concordance'],
-    ['ripplewise aggregate detailed.csv --concordance groups.csv --json', 'the groups and totals as JSON'],
-  ]);
-  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
-}
-
-async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   if (!f.concordance) throw new UsageError('aggregate needs --concordance FILE', 'missing-option');
   const plan = planOutputs(f, FORMATS);
   const loaded = await loadTable(ctx, name, f);

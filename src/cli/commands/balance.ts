@@ -1,5 +1,4 @@
 /** `ripplewise balance TABLE --row-totals FILE --column-totals FILE [--method ras|gras] --out FILE`: a table scaled to new totals. */
-import type { Command } from 'commander';
 import type { Matrix } from '../../../engine/linalg/matrix';
 import { zeros } from '../../../engine/linalg/matrix';
 import type { BalanceMethod } from '../../../engine/regional/index';
@@ -9,12 +8,11 @@ import { moneyUnit } from '../../../engine/table';
 import { buildReport, checksSection, matrixSection, setting } from '../../report/model';
 import { balanceSection } from '../../report/regional';
 import type { CommonFlags } from '../common';
-import { checkedTable, collect, examples, numberOption, outputOptions, reportBase, reportInputs, tableLine, tableOptions } from '../common';
+import { checkedTable, numberOption, reportBase, reportInputs, tableLine } from '../common';
 import type { CliContext } from '../context';
 import { styles, useColour } from '../context';
 import { EXIT_CHECKS, UsageError } from '../errors';
 import { reportInput } from '../files';
-import type { Action } from '../main';
 import { matrixJson, matrixWriters } from '../matrix-out';
 import type { LabelledMatrix } from '../matrix-out';
 import { deliver, planOutputs } from '../output';
@@ -22,8 +20,9 @@ import { progress } from '../progress';
 import { pickColumn, readValues } from '../regional-input';
 import type { ValueColumn, ValuesRead } from '../regional-input';
 import { CAUTION_LINE, terminalSafe } from '../text';
+import { FORMATS } from '../register/balance';
 
-interface Flags extends CommonFlags {
+export interface Flags extends CommonFlags {
   rowTotals?: string;
   columnTotals?: string;
   rowTotalsColumn?: string;
@@ -33,33 +32,6 @@ interface Flags extends CommonFlags {
   fix?: string[];
   tolerance?: string;
   maxIterations?: string;
-}
-
-const FORMATS = ['csv', 'tsv', 'xlsx', 'json', 'html'] as const;
-
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p
-    .command('balance')
-    .summary('Scale a table to new row and column totals by RAS, or GRAS for tables with negative entries')
-    .argument('<table>', "the table to update ('-' for standard input)")
-    .description(`${RAS_ABOUT} ${GRAS_ABOUT}`)
-    .requiredOption('--row-totals <file>', 'the new row totals: a code column, optionally labels, then the totals')
-    .requiredOption('--column-totals <file>', 'the new column totals, in the same layout')
-    .option('--row-totals-column <name>', 'the column of the row-totals file to use (default: the first column of numbers)')
-    .option('--column-totals-column <name>', 'the column of the column-totals file to use (default: the first column of numbers)')
-    .option('-m, --method <method>', 'ras|gras (default: ras, or gras when the part has negative entries)')
-    .option('--part <part>', 'intermediate: the flows between sectors; whole: sectors and primary-input rows by sectors and final-demand columns', 'intermediate')
-    .option('--fix <row:column>', 'hold a cell at its value, by row and column code (repeatable)', collect)
-    .option('--tolerance <number>', 'stop when every row and column sum is within this relative deviation of its target (default 1e-10)')
-    .option('--max-iterations <n>', 'at most this many iterations (default 10000)');
-  tableOptions(cmd);
-  outputOptions(cmd, FORMATS, { locale: true });
-  examples(cmd, [
-    ['ripplewise balance old.csv --row-totals sales.csv --column-totals purchases.csv --out new.csv', 'RAS update of the flows between sectors'],
-    ['ripplewise balance use.xlsx --part whole --method gras --row-totals rows.csv --column-totals cols.csv --out balanced.xlsx', 'GRAS with taxes less subsidies'],
-    ['ripplewise balance old.csv --row-totals r.csv --column-totals c.csv --fix AGR:FOOD --json', 'one cell held fixed; the result as JSON'],
-  ]);
-  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
 }
 
 /** The part to balance as a matrix with its row and column axes. */
@@ -88,7 +60,7 @@ function oneColumn(read: ValuesRead, given: string | undefined, option: string):
   return read.columns[0]!;
 }
 
-async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   const part = (f.part ?? 'intermediate').toLowerCase();
   if (part !== 'intermediate' && part !== 'whole') throw new UsageError(`--part must be intermediate or whole; got '${f.part}'`, 'bad-part');
   const given = f.method?.toLowerCase();

@@ -1,52 +1,26 @@
 /** `ripplewise coefficients TABLE`: technical coefficients A, the Leontief inverse L, allocation coefficients B or the Ghosh inverse G. */
-import type { Command } from 'commander';
 import { allocationCoefficients, GhoshModel } from '../../../engine/ghosh';
 import { LeontiefModel } from '../../../engine/leontief';
 import type { Matrix } from '../../../engine/linalg/matrix';
 import { moneyUnit } from '../../../engine/table';
 import { buildReport, checksSection, describeTable, matrixSection, modelAssumptions, setting } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { checkedTable, examples, outputOptions, reportBase, reportInputs, tableLine, tableOptions } from '../common';
+import { checkedTable, reportBase, reportInputs, tableLine } from '../common';
 import type { CliContext } from '../context';
 import { UsageError } from '../errors';
-import type { Action } from '../main';
 import type { LabelledMatrix } from '../matrix-out';
 import { matrixJson, matrixWriters } from '../matrix-out';
 import { deliver, planOutputs } from '../output';
 import { CAUTION_LINE } from '../text';
+import { COEFFICIENT_KINDS, FORMATS } from '../register/coefficients';
 
-interface Flags extends CommonFlags {
+export interface Flags extends CommonFlags {
   kind?: string;
 }
 
-export const COEFFICIENT_KINDS = {
-  technical: { title: 'Technical coefficients A = Z x̂⁻¹', about: "What each sector (column) buys from each sector (row) per unit of its own output." },
-  'total-requirements': { title: 'Total requirements (Leontief inverse) L = (I − A)⁻¹', about: 'The output of each sector (row), direct and indirect, per unit of final demand for each sector (column).' },
-  allocation: { title: 'Allocation coefficients B = x̂⁻¹ Z', about: 'The share of each sector\'s (row) output sold to each sector (column) as an input.' },
-  'ghosh-inverse': { title: 'Ghosh inverse G = (I − B)⁻¹', about: 'The output of each sector (column) per unit of primary input in each sector (row), in the supply-driven model.' },
-} as const;
 type Kind = keyof typeof COEFFICIENT_KINDS;
 
-const FORMATS = ['csv', 'tsv', 'xlsx', 'json', 'html'] as const;
-
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p
-    .command('coefficients')
-    .summary('Technical coefficients, Leontief inverse, allocation or Ghosh matrix')
-    .argument('<table>', "the table ('-' for standard input)")
-    .description('Technical coefficients, the Leontief inverse (total requirements), allocation coefficients or the Ghosh inverse, as a matrix.')
-    .option('-k, --kind <kind>', `${Object.keys(COEFFICIENT_KINDS).join('|')} (default technical)`, 'technical');
-  tableOptions(cmd);
-  outputOptions(cmd, FORMATS, { locale: true });
-  examples(cmd, [
-    ['ripplewise coefficients table.csv --out A.csv', 'technical coefficients as a wide CSV'],
-    ['ripplewise coefficients table.csv --kind total-requirements --out L.xlsx', 'the Leontief inverse as a workbook'],
-    ['ripplewise coefficients table.json --format csv > A.csv', 'to standard output'],
-  ]);
-  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
-}
-
-async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   const kind = (f.kind ?? 'technical') as Kind;
   if (!(kind in COEFFICIENT_KINDS)) throw new UsageError(`--kind ${f.kind} is not known; choose one of ${Object.keys(COEFFICIENT_KINDS).join(', ')}`, 'bad-kind');
   const plan = planOutputs(f, FORMATS);

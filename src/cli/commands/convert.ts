@@ -1,13 +1,11 @@
 /** `ripplewise convert TABLE --out FILE`: read a table in any layout src/io reads, write it as CSV, TSV, XLSX or JSON (read back identically). */
-import type { Command } from 'commander';
 import { coefficients } from '../../../engine/table';
 import { buildReport, checksSection, matrixSection, setting } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { examples, outputOptions, reportBase, reportInputs, tableLine, tableOptions } from '../common';
+import { reportBase, reportInputs, tableLine } from '../common';
 import { checks } from '../../../engine/checks';
 import type { CliContext } from '../context';
 import { UsageError } from '../errors';
-import type { Action } from '../main';
 import { deliver, planOutputs } from '../output';
 import { InputError } from '../../../engine/errors';
 import { detectLayout, guessShape, readGrid } from '../../io/index';
@@ -15,30 +13,11 @@ import { readInput } from '../files';
 import { loadTable, sheetOption } from '../table-input';
 import { tableJson, tableWriters } from '../table-out';
 import { moneyUnit } from '../../../engine/table';
+import { FORMATS } from '../register/convert';
 
-interface Flags extends CommonFlags {
+export interface Flags extends CommonFlags {
   coefficients?: boolean;
   printMapping?: boolean;
-}
-
-const FORMATS = ['csv', 'tsv', 'xlsx', 'json', 'html'] as const;
-
-export const CONVERT_ABOUT = 'Read a table (JSON, CSV, TSV or XLSX, wide or long, with a mapping if needed) and write it in one layout that every Ripplewise reader reads back to the identical table.';
-
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p.command('convert')
-    .summary('Read a table in any layout and write it as CSV, TSV, XLSX or JSON').argument('<table>', "the table ('-' for standard input)").description(CONVERT_ABOUT);
-  tableOptions(cmd);
-  cmd.option('--coefficients', 'XLSX: add a sheet of technical coefficients');
-  cmd.option('--print-mapping', 'print the layout the reader detected (JSON), to edit and pass back with --mapping');
-  outputOptions(cmd, FORMATS, { locale: true });
-  examples(cmd, [
-    ['ripplewise convert table.json --out table.xlsx', 'JSON to a workbook'],
-    ['ripplewise convert agency.xlsx --sheet "Table 2" --out table.csv', 'one sheet of an agency workbook to CSV'],
-    ['ripplewise convert agency.csv --print-mapping > mapping.json', 'the detected layout, to correct'],
-    ['ripplewise convert agency.csv --mapping mapping.json --out table.json', 'read with a corrected layout'],
-  ]);
-  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
 }
 
 /**
@@ -69,7 +48,7 @@ async function printMappingAlways(ctx: CliContext, name: string, f: Flags): Prom
   }
 }
 
-async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   if (f.printMapping && (f.out?.length || f.format || f.json)) throw new UsageError('--print-mapping prints the layout alone: leave out --out, --format and --json', 'conflict');
   const plan = planOutputs(f, FORMATS);
   if (f.printMapping) return printMappingAlways(ctx, name, f);

@@ -1,40 +1,20 @@
 /** `ripplewise extract TABLE [--sector CODES]`: hypothetical extraction of a sector or group, or of each sector in turn. */
-import type { Command } from 'commander';
 import { EXTRACTION_ABOUT, EXTRACTION_RANKING_ABOUT, extractEach, extraction } from '../../../engine/extraction';
 import { LeontiefModel } from '../../../engine/leontief';
 import { buildReport, checksSection, describeTable, extractionRankingSection, extractionSection, modelAssumptions, setting } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { checkedTable, examples, outputOptions, reportBase, reportInputs, reportWriters, tableLine, tableOptions } from '../common';
+import { checkedTable, reportBase, reportInputs, reportWriters, tableLine } from '../common';
 import type { CliContext } from '../context';
-import type { Action } from '../main';
 import { list } from '../model-options';
 import { deliver, planOutputs } from '../output';
 import { CAUTION_LINE, fixed, textTable } from '../text';
+import { FORMATS } from '../register/extract';
 
-interface Flags extends CommonFlags {
+export interface Flags extends CommonFlags {
   sector?: string;
 }
 
-const FORMATS = ['json', 'html', 'xlsx', 'csv'] as const;
-
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p
-    .command('extract')
-    .summary('Hypothetical extraction of a sector, a group or each sector')
-    .argument('<table>', "the table ('-' for standard input)")
-    .description(`${EXTRACTION_ABOUT} Without --sector, every sector is extracted in turn and ranked.`)
-    .option('--sector <codes>', 'the sector or group to extract, comma-separated codes');
-  tableOptions(cmd);
-  outputOptions(cmd, FORMATS, { locale: true });
-  examples(cmd, [
-    ['ripplewise extract table.csv', 'every sector in turn, ranked by the output lost'],
-    ['ripplewise extract table.csv --sector FISH,FOOD', 'extract a group'],
-    ['ripplewise extract table.csv --sector MINE --out mine.html', 'a report'],
-  ]);
-  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
-}
-
-async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   const plan = planOutputs(f, FORMATS);
   const loaded = await checkedTable(ctx, name, f);
   const t = loaded.table;

@@ -1,6 +1,5 @@
 /** `ripplewise impact TABLE --scenario FILE`: each scenario's direct, indirect and induced effects on every sector and measure. */
 import { closureLine, conventionLines } from '../../../engine/conventions';
-import type { Command } from 'commander';
 import type { Impact } from '../../../engine/impact';
 import { IMPACT_ABOUT, impacts } from '../../../engine/impact';
 import { multipliers } from '../../../engine/multipliers';
@@ -8,45 +7,22 @@ import type { ResolvedScenario } from '../../../engine/scenario';
 import type { Section } from '../../report/model';
 import { buildReport, checksSection, comparisonSection, describeTable, multipliersSection, scenarioSection } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { checkedTable, collect, examples, outputOptions, reportBase, reportInputs, reportWriters, settingsJson, tableLine, tableOptions } from '../common';
+import { checkedTable, reportBase, reportInputs, reportWriters, settingsJson, tableLine } from '../common';
 import type { CliContext } from '../context';
 import { styles } from '../context';
 import { UsageError } from '../errors';
 import { reportInput } from '../files';
-import type { Action } from '../main';
 import type { ModelFlags } from '../model-options';
-import { modelOptions, prepareModels } from '../model-options';
+import { prepareModels } from '../model-options';
 import { deliver, planOutputs } from '../output';
 import { progress } from '../progress';
 import { loadScenarios } from '../scenario-input';
 import { CAUTION_LINE, fixed, textTable } from '../text';
+import { FORMATS } from '../register/impact';
 
-interface Flags extends CommonFlags, ModelFlags {
+export interface Flags extends CommonFlags, ModelFlags {
   scenario?: string;
   name?: string[];
-}
-
-const FORMATS = ['html', 'xlsx', 'json', 'csv'] as const;
-
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p
-    .command('impact')
-    .summary('Scenario impacts: direct, indirect and induced, by sector and measure')
-    .argument('<table>', "the table: .json, .csv, .tsv or .xlsx ('-' for standard input)")
-    .description(IMPACT_ABOUT)
-    .requiredOption('-s, --scenario <file>', 'the scenario file (JSON: one scenario, or a ripplewise-scenarios document with several)')
-    .option('-n, --name <name>', 'only the scenario of this name (repeatable; default: every scenario in the file)', collect);
-  tableOptions(cmd);
-  modelOptions(cmd);
-  outputOptions(cmd, FORMATS, { locale: true });
-  examples(cmd, [
-    ['ripplewise impact table.csv --scenario plant.json --out report.html', 'a self-contained HTML report'],
-    ['ripplewise impact table.csv --scenario plant.json --out report.xlsx --out report.json', 'a workbook and the JSON'],
-    ['ripplewise impact table.csv --scenario all.json --name "New plant" --json', 'one scenario, as JSON'],
-    ['ripplewise impact table.csv --scenario plant.json --no-household', 'Type I only: no induced effects'],
-    ['ripplewise impact table.csv --scenario plant.json --out report.html --locale de-DE', 'numbers in German notation'],
-  ]);
-  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
 }
 
 export function impactJson(r: ResolvedScenario, im: Impact) {
@@ -80,7 +56,7 @@ export function impactJson(r: ResolvedScenario, im: Impact) {
   };
 }
 
-async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   if (!f.scenario) throw new UsageError('impact needs --scenario FILE', 'missing-option');
   const plan = planOutputs(f, FORMATS);
   const bar = await progress(ctx, 'impact', 5, f);

@@ -1,38 +1,21 @@
 /** `ripplewise linkages TABLE`: backward and forward linkages, dispersion indices and key sectors. */
-import type { Command } from 'commander';
 import { conventionLines, tableConventions } from '../../../engine/conventions';
 import { KEY_SECTOR_GROUPS, LINKAGES_ABOUT, linkages } from '../../../engine/linkages';
 import { LeontiefModel } from '../../../engine/leontief';
 import { buildReport, checksSection, describeTable, linkagesSection, modelAssumptions } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { checkedTable, examples, outputOptions, reportBase, reportInputs, reportWriters, tableLine, tableOptions } from '../common';
+import { checkedTable, reportBase, reportInputs, reportWriters, tableLine } from '../common';
 import type { CliContext } from '../context';
 import { styles } from '../context';
-import type { Action } from '../main';
 import { deliver, planOutputs } from '../output';
 import { CAUTION_LINE, fixed, textTable } from '../text';
+import { FORMATS } from '../register/linkages';
 
-interface Flags extends CommonFlags {
+export interface Flags extends CommonFlags {
   variation?: boolean;
 }
 
-const FORMATS = ['json', 'html', 'xlsx', 'csv'] as const;
-
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p.command('linkages')
-    .summary('Backward and forward linkages and key sectors').argument('<table>', "the table ('-' for standard input)").description(LINKAGES_ABOUT);
-  tableOptions(cmd);
-  cmd.option('--no-variation', 'skip the coefficients of variation (they need the whole Leontief inverse)');
-  outputOptions(cmd, FORMATS, { locale: true });
-  examples(cmd, [
-    ['ripplewise linkages table.csv', 'indices and key-sector groups'],
-    ['ripplewise linkages table.csv --out linkages.html', 'a report with the key-sector quadrant'],
-    ['ripplewise linkages table.csv --json', 'as JSON'],
-  ]);
-  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
-}
-
-async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   const plan = planOutputs(f, FORMATS);
   const loaded = await checkedTable(ctx, name, f);
   const t = loaded.table;

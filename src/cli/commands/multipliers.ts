@@ -1,44 +1,19 @@
 /** `ripplewise multipliers TABLE`: per-sector multipliers of every measure, simple and total, Type I and Type II. */
-import type { Command } from 'commander';
 import { closureLine, conventionLines } from '../../../engine/conventions';
 import { multipliers, MULTIPLIERS_ABOUT } from '../../../engine/multipliers';
 import type { Multipliers } from '../../../engine/multipliers';
 import { buildReport, describeTable, multipliersSection, checksSection } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { checkedTable, examples, outputOptions, reportBase, reportInputs, reportWriters, settingsJson, tableLine, tableOptions } from '../common';
+import { checkedTable, reportBase, reportInputs, reportWriters, settingsJson, tableLine } from '../common';
 import type { CliContext } from '../context';
 import { styles } from '../context';
-import type { Action } from '../main';
 import type { ModelFlags } from '../model-options';
-import { modelOptions, prepareModels } from '../model-options';
+import { prepareModels } from '../model-options';
 import { deliver, planOutputs } from '../output';
 import { CAUTION_LINE, fixed, textTable } from '../text';
+import { FORMATS } from '../register/multipliers';
 
-type Flags = CommonFlags & ModelFlags;
-
-const FORMATS = ['json', 'html', 'xlsx', 'csv'] as const;
-
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p
-    .command('multipliers')
-    .summary('Multipliers of every measure, simple and total, Type I and II')
-    .argument('<table>', "the table: .json, .csv, .tsv or .xlsx ('-' for standard input)")
-    .description(`${MULTIPLIERS_ABOUT} Type I = simple ÷ direct; Type II = total ÷ direct (closed for households).`);
-  tableOptions(cmd);
-  modelOptions(cmd);
-  outputOptions(cmd, FORMATS, { locale: true });
-  examples(cmd, [
-    ['ripplewise multipliers table.csv', 'a table of multipliers per measure'],
-    ['ripplewise multipliers table.xlsx --sheet IO --json', 'per-sector multipliers of each measure as JSON'],
-    ['ripplewise multipliers table.csv --household-column HHC --labour-income-row COE', 'choose the Type II closure'],
-    ['ripplewise multipliers table.csv --no-household --measure output,JOBS', 'Type I only, two measures'],
-    ['ripplewise multipliers table.xlsx --household-income 143398', 'Type II with spending divided by a household income not in the table'],
-    ['ripplewise multipliers table.csv --household-basis consumption-total', "Type II with spending divided by the consumption column's own total"],
-    ['ripplewise multipliers table.csv --split rounds', 'the indirect effect as first round and later rounds'],
-    ['ripplewise multipliers table.csv --out multipliers.xlsx', 'a workbook of the multipliers'],
-  ]);
-  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
-}
+export type Flags = CommonFlags & ModelFlags;
 
 /** The JSON of one measure's multipliers: blanks (Type I and II where the direct effect is 0) are null. */
 export function multipliersJson(m: Multipliers) {
@@ -65,7 +40,7 @@ export function multipliersJson(m: Multipliers) {
   };
 }
 
-async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   const plan = planOutputs(f, FORMATS);
   const loaded = await checkedTable(ctx, name, f);
   const t = loaded.table;

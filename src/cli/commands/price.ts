@@ -1,5 +1,4 @@
 /** `ripplewise price TABLE`: the Leontief price model, costs passed on in full through the supply chain. */
-import type { Command } from 'commander';
 import { LeontiefModel } from '../../../engine/leontief';
 import type { PriceShock, ValueAddedChange } from '../../../engine/price';
 import { PRICE_ABOUT, priceModel } from '../../../engine/price';
@@ -7,46 +6,23 @@ import { Checker } from '../../project/check';
 import { parseJson } from '../../project/json';
 import { buildReport, checksSection, describeTable, modelAssumptions, priceSection, setting } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { checkedTable, examples, numberOption, outputOptions, reportBase, reportInputs, reportWriters, tableLine, tableOptions } from '../common';
+import { checkedTable, numberOption, reportBase, reportInputs, reportWriters, tableLine } from '../common';
 import type { CliContext } from '../context';
 import { UsageError } from '../errors';
 import type { InputFile } from '../files';
 import { readInput, reportInput } from '../files';
-import type { Action } from '../main';
 import { list } from '../model-options';
 import { deliver, planOutputs } from '../output';
 import { CAUTION_LINE, fixed, textTable } from '../text';
+import { FORMATS } from '../register/price';
 
-interface Flags extends CommonFlags {
+export interface Flags extends CommonFlags {
   valueAddedPercent?: string;
   perUnit?: string;
   row?: string;
   sector?: string;
   importPrice?: string;
   shock?: string;
-}
-
-const FORMATS = ['json', 'html', 'xlsx', 'csv'] as const;
-
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p.command('price')
-    .summary('Leontief price model: cost push through the supply chain').argument('<table>', "the table ('-' for standard input)").description(PRICE_ABOUT);
-  tableOptions(cmd);
-  cmd
-    .option('--value-added-percent <percent>', 'raise value added by this percentage (5 means +5 %): all rows, or the --row, in every sector or the --sector ones')
-    .option('--per-unit <amount>', 'raise value added by this amount per unit of output instead (in every sector or the --sector ones)')
-    .option('--row <code>', 'the value-added row to raise (such as compensation of employees); default all rows')
-    .option('--sector <codes>', 'the sectors whose value added rises, comma-separated; default every sector')
-    .option('--import-price <percent>', 'raise the price of imported inputs by this percentage in every sector (needs an imports row)')
-    .option('--shock <file>', 'a JSON file with the shock: { "valueAdded": [{ "sector", "row", "percent" | "perUnit" }], "importPrice": percent | [{ "sector", "percent" }] }');
-  outputOptions(cmd, FORMATS, { locale: true });
-  examples(cmd, [
-    ['ripplewise price table.csv --value-added-percent 5 --row COE', 'a 5 % rise in wages everywhere'],
-    ['ripplewise price table.csv --per-unit 0.02 --sector ENER', 'a tax of 0.02 per unit of energy output'],
-    ['ripplewise price table.csv --import-price 10 --json', 'imported inputs 10 % dearer, as JSON'],
-    ['ripplewise price table.csv --shock shock.json --out prices.xlsx', 'a shock from a file, as a workbook'],
-  ]);
-  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
 }
 
 function shockFromFile(f: InputFile): PriceShock {
@@ -91,7 +67,7 @@ function describeShock(s: PriceShock): string {
   return parts.length ? parts.join('; ') : 'none (base price indices only)';
 }
 
-async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   const plan = planOutputs(f, FORMATS);
   const pct = numberOption(f.valueAddedPercent, '--value-added-percent');
   const per = numberOption(f.perUnit, '--per-unit');

@@ -1,25 +1,24 @@
 /** `ripplewise regionalise NATIONAL --regional FILE --method slq|cilq|flq|aflq|sdp [--delta 0.3] --out FILE`: a region's table from the nation's. */
-import type { Command } from 'commander';
 import { checks } from '../../../engine/checks';
 import { LeontiefModel } from '../../../engine/leontief';
 import type { BasisKind, RegionalMethod } from '../../../engine/regional/index';
-import { BASIS_KINDS, DEFAULT_DELTA, METHOD_NAMES, REGIONAL_CAUTIONS, REGIONAL_METHODS, REGIONALISE_ABOUT, regionalise, TwoRegionModel } from '../../../engine/regional/index';
+import { BASIS_KINDS, METHOD_NAMES, REGIONAL_CAUTIONS, REGIONAL_METHODS, regionalise, TwoRegionModel } from '../../../engine/regional/index';
 import { buildReport, checksSection, setting } from '../../report/model';
 import { regionalSection, twoRegionSection } from '../../report/regional';
 import type { CommonFlags } from '../common';
-import { checkedTable, examples, numberOption, outputOptions, reportBase, reportInputs, tableLine, tableOptions } from '../common';
+import { checkedTable, numberOption, reportBase, reportInputs, tableLine } from '../common';
 import type { CliContext } from '../context';
 import { styles } from '../context';
 import { UsageError } from '../errors';
 import { reportInput } from '../files';
-import type { Action } from '../main';
 import { deliver, planOutputs } from '../output';
 import { progress } from '../progress';
 import { chooseBasis, readValues } from '../regional-input';
 import { tableJson, tableWriters } from '../table-out';
 import { CAUTION_LINE, fixed, textTable } from '../text';
+import { FORMATS } from '../register/regionalise';
 
-interface Flags extends CommonFlags {
+export interface Flags extends CommonFlags {
   regional?: string;
   regionalSheet?: string;
   method?: string;
@@ -32,37 +31,7 @@ interface Flags extends CommonFlags {
   twoRegion?: boolean;
 }
 
-const FORMATS = ['csv', 'tsv', 'xlsx', 'json', 'html'] as const;
-
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p
-    .command('regionalise')
-    .alias('regionalize')
-    .summary("Estimate a region's table from the national one by location quotients or the supply-demand pool")
-    .argument('<national>', "the national table ('-' for standard input)")
-    .description(`${REGIONALISE_ABOUT} ${REGIONAL_CAUTIONS[0]}`)
-    .requiredOption('-r, --regional <file>', "the regional file: a code column, optionally labels, then the region's values by sector (and the nation's, if the table has none), under a header such as 'Region (jobs)'")
-    .option('--regional-sheet <name>', 'the sheet of a regional workbook')
-    .option('-m, --method <method>', `${REGIONAL_METHODS.join('|')}: ${REGIONAL_METHODS.map((m) => METHOD_NAMES[m]).join('; ')}`, 'flq')
-    .option('--delta <number>', `δ of FLQ and AFLQ, from 0 to 1 (default ${DEFAULT_DELTA}, a common default)`)
-    .option('--basis <kind>', `what the regional values count: ${BASIS_KINDS.join('|')}`, 'employment')
-    .option('--regional-column <name>', "the column of the region's values (a header or a number from 1; default: the one named for a region, else the first)")
-    .option('--national-column <name>', "the column of the nation's values (default: the one named for the nation, else from the table: jobs satellite, output, or compensation row)")
-    .option('--region <name>', 'the name of the region, shown in the report')
-    .option('--concordance <file>', "a concordance from the regional file's codes to the table's (values summed per table code)")
-    .option('--two-region', 'also build the two-region model (the region and the rest of the nation) and split each sector’s output multiplier into intraregional, feedback and spillover');
-  tableOptions(cmd);
-  outputOptions(cmd, FORMATS, { locale: true });
-  examples(cmd, [
-    ['ripplewise regionalise national.csv --regional county-jobs.csv --method flq --out county.csv', 'FLQ with δ = 0.3'],
-    ['ripplewise regionalise national.xlsx --regional jobs.xlsx --method slq --out report.html', 'a report with quotients and multipliers side by side'],
-    ['ripplewise regionalise national.csv --regional jobs.csv --method aflq --delta 0.25 --json', 'AFLQ, the result as JSON'],
-    ['ripplewise regionalise national.csv --regional output.csv --basis output --method sdp --two-region --out report.html', 'supply-demand pool on output, two regions'],
-  ]);
-  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
-}
-
-async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   const method = (f.method ?? 'flq').toLowerCase() as RegionalMethod;
   if (!REGIONAL_METHODS.includes(method)) throw new UsageError(`--method must be one of ${REGIONAL_METHODS.join(', ')}; got '${f.method}'`, 'bad-method');
   const kind = (f.basis ?? 'employment').toLowerCase() as BasisKind;

@@ -2,7 +2,6 @@
  * `ripplewise report TABLE [--scenario FILE]`: the whole report of a table: checks, multipliers,
  * linkages and key sectors, the sensitivity tornado and, with scenarios, their impacts.
  */
-import type { Command } from 'commander';
 import { impacts } from '../../../engine/impact';
 import { linkages } from '../../../engine/linkages';
 import { multipliers } from '../../../engine/multipliers';
@@ -12,19 +11,19 @@ import { tornado } from '../../../engine/tornado';
 import type { Section } from '../../report/model';
 import { buildReport, checksSection, comparisonSection, linkagesSection, multipliersSection, scenarioSection, setting, tornadoSection } from '../../report/model';
 import type { CommonFlags } from '../common';
-import { checkedTable, collect, examples, numberOption, outputOptions, reportBase, reportInputs, reportWriters, tableOptions } from '../common';
+import { checkedTable, numberOption, reportBase, reportInputs, reportWriters } from '../common';
 import type { CliContext } from '../context';
 import { UsageError } from '../errors';
 import { reportInput } from '../files';
-import type { Action } from '../main';
 import type { ModelFlags } from '../model-options';
-import { modelOptions, prepareModels } from '../model-options';
+import { prepareModels } from '../model-options';
 import { deliver, planOutputs } from '../output';
 import { progress } from '../progress';
 import type { LoadedScenarios } from '../scenario-input';
 import { loadScenarios } from '../scenario-input';
+import { FORMATS } from '../register/report';
 
-interface Flags extends CommonFlags, ModelFlags {
+export interface Flags extends CommonFlags, ModelFlags {
   scenario?: string;
   name?: string[];
   title?: string;
@@ -34,34 +33,7 @@ interface Flags extends CommonFlags, ModelFlags {
   tornadoPercent?: string;
 }
 
-const FORMATS = ['html', 'xlsx', 'json', 'csv'] as const;
-
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p
-    .command('report')
-    .summary('The whole report: checks, multipliers, linkages, tornado, scenarios')
-    .argument('<table>', "the table ('-' for standard input)")
-    .description('The whole report of a table: checks, multipliers of every measure, linkages and key sectors, the sensitivity tornado and, with --scenario, each scenario\'s impact.')
-    .option('-s, --scenario <file>', 'scenarios to report (JSON)')
-    .option('-n, --name <name>', 'only the scenario of this name (repeatable)', collect)
-    .option('--title <text>', 'the report title')
-    .option('--no-tornado', 'leave out the sensitivity tornado')
-    .option('--tornado-sector <code>', "the tornado's result: the output multiplier of this sector (default: the first scenario's total output, else the largest output multiplier)")
-    .option('--tornado-top <n>', 'coefficients in the tornado (default 10)')
-    .option('--tornado-percent <p>', 'the swing of each coefficient, in percent (default 10)');
-  tableOptions(cmd);
-  modelOptions(cmd);
-  outputOptions(cmd, FORMATS, { locale: true });
-  examples(cmd, [
-    ['ripplewise report table.csv --out report.html', 'checks, multipliers, linkages and the tornado'],
-    ['ripplewise report table.csv --scenario s.json --out r.html --out r.xlsx --out r.json', 'three formats at once'],
-    ['ripplewise report table.csv --scenario s.json --name "New plant" --out r.html', 'one scenario'],
-    ['ripplewise report table.csv --tornado-sector FOOD --tornado-percent 20 --out r.html', 'the tornado of one multiplier'],
-  ]);
-  cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
-}
-
-async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
+export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
   const plan = planOutputs(f, FORMATS);
   if (!plan.length && !f.json) throw new UsageError('report writes files: give --out FILE.html (or .xlsx, .json, .csv), or --format', 'no-output', 'For a quick look in the terminal, use multipliers, impact or linkages');
   const top = numberOption(f.tornadoTop, '--tornado-top', { min: 1, max: 100, integer: true }) ?? 10;

@@ -4,7 +4,6 @@
  * `ripplewise sweep template slurm|kubernetes|parallel|dockerfile`: print a scheduler template.
  */
 import { basename, dirname, extname, join } from 'node:path';
-import type { Command } from 'commander';
 import { writeReport } from '../../report/write';
 import { buildReport, setting, textSection } from '../../report/model';
 import { checkShards, mergeShards } from '../../sweep/merge';
@@ -13,32 +12,31 @@ import { chooseShard, ShardError, shardRange } from '../../sweep/shard';
 import { summarySection } from '../../sweep/summary';
 import type { TemplateKind } from '../../sweep/templates/index';
 import { template, TEMPLATE_KINDS } from '../../sweep/templates/index';
-import { examples, localeOf, numberOption, reportBase, TOOL } from '../common';
+import { localeOf, numberOption, reportBase, TOOL } from '../common';
 import type { CliContext } from '../context';
 import { absolute } from '../context';
 import { UsageError } from '../errors';
 import type { OutputFormat } from '../files';
 import { outputFormat, writeOutput } from '../files';
-import type { Action } from '../main';
 import { jsonText } from '../output';
 import { progress } from '../progress';
 import { CAUTION_LINE } from '../text';
 
-interface RunFlags {
+export interface RunFlags {
   out?: string;
   shard?: string;
   shards?: string;
   json?: boolean;
 }
 
-interface MergeFlags {
+export interface MergeFlags {
   out?: string;
   report?: string[];
   locale?: string;
   json?: boolean;
 }
 
-interface TemplateFlags {
+export interface TemplateFlags {
   plan?: string;
   out?: string;
   merged?: string;
@@ -50,61 +48,6 @@ interface TemplateFlags {
 
 const REPORT_FORMATS: readonly OutputFormat[] = ['html', 'xlsx', 'json'];
 
-export function register(p: Command, run: (a: Action, json: boolean) => void): void {
-  const cmd = p
-    .command('sweep')
-    .summary('Sweeps: tables × scenarios × parameters × draws, in shards for Slurm, Kubernetes or GNU parallel')
-    .description(
-      'Run the units of one shard of a sweep plan (a ripplewise-sweep file: tables, scenario files, a grid of closure shares and coefficient cvs, Monte Carlo draws with a seed) and write them as Parquet with a manifest. Each unit depends only on its inputs, the plan seed and its draw number, so the results do not depend on the number of shards. Run again, a shard redoes only its unfinished units.',
-    )
-    .argument('<plan>', 'the sweep plan (JSON, format ripplewise-sweep)')
-    .option('-o, --out <dir>', 'the folder the shards write to (each shard in its own sub-folder)')
-    .option('--shard <I/N>', 'run shard I of N (I from 1); default: from SLURM_ARRAY_TASK_ID and SLURM_ARRAY_TASK_COUNT, or JOB_COMPLETION_INDEX with --shards, else the whole plan')
-    .option('--shards <n>', 'the number of shards, for a Kubernetes Indexed Job (JOB_COMPLETION_INDEX gives the shard)')
-    .option('--json', 'print what the shard did as JSON on standard output');
-  examples(cmd, [
-    ['ripplewise sweep plan.json --out results --shard 1/4', 'shard 1 of 4'],
-    ['ripplewise sweep plan.json --out results', 'the whole plan, or the shard of a Slurm array task'],
-    ['ripplewise sweep merge results --out results.parquet', 'combine the shards, with results.html and results.xlsx'],
-    ['ripplewise sweep template slurm --plan plan.json --shards 8', 'a Slurm job array script'],
-  ]);
-  cmd.action((plan: string, f: RunFlags) => run((ctx) => runAction(ctx, plan, f), !!f.json));
-
-  const merge = cmd
-    .command('merge')
-    .summary('Check the shards and combine them into one Parquet file, with a summary report')
-    .description(
-      'Check that every unit of the plan is in the folder exactly once, made from the same plan, inputs (SHA-256) and version, then write the combined Parquet file (one row per unit × sector × measure × effect) and a summary report with the percentiles across the draws.',
-    )
-    .argument('<dir>', 'the folder the shards wrote to')
-    .option('-o, --out <file>', 'the combined Parquet file (.parquet)')
-    .option('--report <file>', 'a summary report: .html, .xlsx or .json (repeatable; default: the --out name with .html and .xlsx)', (v: string, prev: string[] | undefined) => [...(prev ?? []), v])
-    .option('--locale <tag>', 'locale of the numbers shown in the HTML report, such as en-GB or de-DE (default en)')
-    .option('--json', 'print the merge as JSON on standard output');
-  // The parent's --out and --json are read where the subcommand's are (optsWithGlobals): commander
-  // gives an option the parent knows to the parent, wherever it stands.
-  merge.action((dir: string, _f: MergeFlags, c: Command) => {
-    const f = c.optsWithGlobals<MergeFlags>();
-    run((ctx) => mergeAction(ctx, dir, f), !!f.json);
-  });
-
-  const tpl = cmd
-    .command('template')
-    .summary('Print a Slurm, Kubernetes, GNU parallel or Dockerfile template for a plan')
-    .argument('<kind>', TEMPLATE_KINDS.join('|'))
-    .option('--plan <file>', 'the plan as the jobs see it (default plan.json)')
-    .option('--out <dir>', 'the shards\' folder (default results)')
-    .option('--merged <file>', 'the combined Parquet file (default: the folder name with .parquet)')
-    .option('--shards <n>', 'the number of shards (default 4)')
-    .option('--program <command>', "the command that runs Ripplewise where the jobs run (default 'ripplewise')")
-    .option('--image <name>', `the container image (default ripplewise:${TOOL.version})`)
-    .option('--jobs <n>', 'GNU parallel: shards at a time (default: all)');
-  tpl.action((kind: string, _f: TemplateFlags, c: Command) => {
-    const f = c.optsWithGlobals<TemplateFlags>();
-    run((ctx) => templateAction(ctx, kind, f), false);
-  });
-}
-
 function shard(ctx: CliContext, f: RunFlags) {
   try {
     return chooseShard(f, ctx.env);
@@ -114,7 +57,7 @@ function shard(ctx: CliContext, f: RunFlags) {
   }
 }
 
-async function runAction(ctx: CliContext, planName: string, f: RunFlags): Promise<number> {
+export async function runAction(ctx: CliContext, planName: string, f: RunFlags): Promise<number> {
   if (!f.out) throw new UsageError('sweep needs --out DIR: the folder the shards write to', 'missing-option');
   const choice = shard(ctx, f);
   const s = await loadSweep(ctx, planName);
@@ -143,7 +86,7 @@ async function runAction(ctx: CliContext, planName: string, f: RunFlags): Promis
   return 0;
 }
 
-async function mergeAction(ctx: CliContext, dir: string, f: MergeFlags): Promise<number> {
+export async function mergeAction(ctx: CliContext, dir: string, f: MergeFlags): Promise<number> {
   if (!f.out) throw new UsageError('sweep merge needs --out FILE.parquet', 'missing-option');
   if (extname(f.out).toLowerCase() !== '.parquet') throw new UsageError(`--out '${f.out}' must end in .parquet`, 'bad-format');
   const out = absolute(ctx, f.out);
@@ -191,7 +134,7 @@ async function mergeAction(ctx: CliContext, dir: string, f: MergeFlags): Promise
   return 0;
 }
 
-async function templateAction(ctx: CliContext, kind: string, f: TemplateFlags): Promise<number> {
+export async function templateAction(ctx: CliContext, kind: string, f: TemplateFlags): Promise<number> {
   if (!(TEMPLATE_KINDS as readonly string[]).includes(kind)) throw new UsageError(`there is no template '${kind}'; choose one of ${TEMPLATE_KINDS.join(', ')}`, 'bad-template');
   const shards = numberOption(f.shards ?? '4', '--shards', { min: 1, max: 100_000, integer: true })!;
   const jobs = numberOption(f.jobs, '--jobs', { min: 1, integer: true });
