@@ -161,6 +161,25 @@ describe.skipIf(!chromium || !have)('household closure bases and rounds in the w
     await screenshot(page, 'closure-rounds');
   });
 
+  it('the results view shows the rounds of a scenario\'s impact, adding up to its indirect effect', async () => {
+    await nav('Scenarios');
+    await page.getByRole('button', { name: 'Add a scenario' }).click();
+    await page.getByLabel('Add a demand change: find a sector by code or name').fill('manufacturing');
+    await page.getByRole('button', { name: 'Add Manufacturing (MAN)' }).click();
+    await page.getByLabel(/^Change 1: amount in /).fill('10');
+    await nav('Results');
+    const totals = page.locator('#res-totals');
+    await expect.poll(() => totals.locator('thead').textContent(), { timeout: 15_000 }).toMatch(/First round.*Later rounds/s);
+    const rows = await tableValues(totals);
+    const out = rows.find((r) => Object.values(r).some((v) => /^Output/.test(v)))!;
+    const key = (re: RegExp) => Object.keys(out).find((h) => re.test(h))!;
+    // The output totals of 10 of demand for manufacturing, as the page shows them.
+    expect(Math.abs(num(out[key(/^First round/)]!) + num(out[key(/^Later rounds/)]!) - num(out[key(/^Indirect/)]!))).toBeLessThanOrEqual(0.015);
+    // First round of output = 10 × the column sum of A for MAN, which the paper prints (0.5294).
+    expect(Math.abs(num(out[key(/^First round/)]!) - 10 * abs!.published[2]!.first)).toBeLessThanOrEqual(0.01);
+    await screenshot(page, 'closure-results-rounds');
+  });
+
   it('the report carries the closure basis, the share, the rounds and the conventions', async () => {
     await nav('Report');
     await expect.poll(() => page.locator('input[name="rounds"]').first().isChecked()).toBe(true);
