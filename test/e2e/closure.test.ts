@@ -29,13 +29,38 @@ import { buildSite, launch, requireChromium, screenshot, serveSite } from './hel
 const chromium = requireChromium('the closure browser test');
 const have = absAvailable();
 
+/** A built site, served, and Chromium on it with a table file opened from the Open step. */
+interface Opened {
+  site: string;
+  served: Served;
+  b: Browser;
+  page: Page;
+}
+
+async function openTable(file: string): Promise<Opened> {
+  const site = await buildSite();
+  const served = await serveSite(site);
+  const b = await launch(chromium!);
+  const page = b.page;
+  await page.goto(served.url);
+  await page.getByRole('navigation').getByRole('button', { name: 'Coefficients', exact: true }).waitFor({ timeout: 15_000 });
+  await page.getByRole('navigation').getByRole('button', { name: 'Open', exact: true }).click();
+  await page.locator('main input[type=file]').first().setInputFiles(file);
+  return { site, served, b, page };
+}
+
+async function closeAll(o: Partial<Opened>, work: string | undefined): Promise<void> {
+  await o.b?.close();
+  await o.served?.close();
+  if (o.site) rmSync(o.site, { recursive: true, force: true });
+  if (work) rmSync(work, { recursive: true, force: true });
+}
+
 /** A number as the page shows it (en locale: thousands commas). */
 const num = (s: string) => Number(s.replace(/,/g, '').trim());
 
 describe.skipIf(!chromium || !have)('household closure bases and rounds in the workbench (ABS 5246.0 worked example)', () => {
-  let site: string;
-  let served: Served;
-  let b: Browser;
+  let o: Partial<Opened> = {};
   let page: Page;
   let work: string;
   let file: string;
@@ -79,22 +104,12 @@ describe.skipIf(!chromium || !have)('household closure bases and rounds in the w
     work = mkdtempSync(join(tmpdir(), 'rw-e2e-closure-'));
     file = join(work, 'abs-5246.json');
     writeFileSync(file, JSON.stringify({ format: 'ripplewise-table', version: 1, table: toPlain(abs!.table) }));
-    site = await buildSite();
-    served = await serveSite(site);
-    b = await launch(chromium!);
-    page = b.page;
-    await page.goto(served.url);
-    await page.getByRole('navigation').getByRole('button', { name: 'Coefficients', exact: true }).waitFor({ timeout: 15_000 });
-    await nav('Open');
-    await page.locator('main input[type=file]').first().setInputFiles(file);
+    const opened = await openTable(file);
+    o = opened;
+    page = opened.page;
   });
 
-  afterAll(async () => {
-    await b?.close();
-    await served?.close();
-    if (site) rmSync(site, { recursive: true, force: true });
-    if (work) rmSync(work, { recursive: true, force: true });
-  });
+  afterAll(() => closeAll(o, work));
 
   it('asks for the closure when no household column can be told apart, and preselects nothing', async () => {
     await expect.poll(() => page.locator('header .table-name').textContent(), { timeout: 15_000 }).toMatch(/ABS 5246\.0|abs-5246/);
@@ -226,9 +241,7 @@ describe.skipIf(!chromium || !have)('household closure bases and rounds in the w
  */
 const haveScotland = scotlandAvailable();
 describe.skipIf(!chromium || !haveScotland)('the household-income basis in the workbench against the Scottish Government\'s published Type II multipliers', () => {
-  let site: string;
-  let served: Served;
-  let b: Browser;
+  let o: Partial<Opened> = {};
   let page: Page;
   let work: string;
 
@@ -237,22 +250,12 @@ describe.skipIf(!chromium || !haveScotland)('the household-income basis in the w
     work = mkdtempSync(join(tmpdir(), 'rw-e2e-scot-'));
     const file = join(work, 'scotland-2016.json');
     writeFileSync(file, JSON.stringify({ format: 'ripplewise-table', version: 1, table: toPlain(table) }));
-    site = await buildSite();
-    served = await serveSite(site);
-    b = await launch(chromium!);
-    page = b.page;
-    await page.goto(served.url);
-    await page.getByRole('navigation').getByRole('button', { name: 'Coefficients', exact: true }).waitFor({ timeout: 15_000 });
-    await page.getByRole('navigation').getByRole('button', { name: 'Open', exact: true }).click();
-    await page.locator('main input[type=file]').first().setInputFiles(file);
+    const opened = await openTable(file);
+    o = opened;
+    page = opened.page;
   }, 180_000);
 
-  afterAll(async () => {
-    await b?.close();
-    await served?.close();
-    if (site) rmSync(site, { recursive: true, force: true });
-    if (work) rmSync(work, { recursive: true, force: true });
-  });
+  afterAll(() => closeAll(o, work));
 
   it('household income 143,398: share 0.4018 stated, Type II output multipliers as published', async () => {
     const { table, published } = await loadScotland();
