@@ -5,7 +5,7 @@
  */
 import { InputError } from '../../engine/errors';
 import type { HouseholdOptions, Models } from '../../engine/household';
-import { buildModels, householdClosure, CLOSURE_BASES, CLOSURE_BASIS_ABOUT, closureBasis, guessHouseholdColumn, guessLabourIncomeRow } from '../../engine/household';
+import { buildModels, householdClosure, CLOSURE_BASES, closureBasis, guessHouseholdColumn, guessLabourIncomeRow } from '../../engine/household';
 import type { ClosureBasis } from '../../engine/household';
 import type { Conventions } from '../../engine/conventions';
 import { conventionLines, conventions } from '../../engine/conventions';
@@ -15,6 +15,7 @@ import { findMeasure, guessJobs, measures } from '../../engine/measures';
 import type { Table } from '../../engine/table';
 import type { ReportSetting } from '../report/model';
 import { modelAssumptions, setting } from '../report/model';
+import { closureSettings, roundsSetting } from '../report/closure-settings';
 import { ChecksFailed, UsageError } from './errors';
 
 // Declared in ./options (loaded at start-up without the engine's models).
@@ -97,12 +98,7 @@ export function prepareModels(t: Table, f: ModelFlags, file?: string): PreparedM
     throw e;
   }
   if (models.closure) {
-    const c = models.closure;
-    settings.push(setting('householdBasis', 'Closure basis (what household spending is divided by)', c.basis, f.householdBasis || f.propensity !== undefined || f.householdIncome !== undefined ? 'given' : 'default', CLOSURE_BASIS_ABOUT[c.basis]));
-    if (c.basis === 'household-income') settings.push(setting('householdIncome', 'Household income divided by', c.denominator, 'given'));
-    if (c.basis === 'propensity') settings.push(setting('propensity', 'Share of income spent in the economy', household!.propensity ?? null, 'given'));
-    if (c.ownPurchases) settings.push(setting('householdOwnPurchases', "Households' purchases from households", c.ownPurchases, 'given'));
-    settings.push(setting('spendingShare', "Share of household income spent on the table's products (implied)", c.share, 'default', `(Σ consumption column${c.ownPurchases ? ' + own purchases' : ''}) ÷ ${c.denominator.toPrecision(6)}`));
+    settings.push(...closureSettings(models.closure, { basisGiven: !!f.householdBasis || f.propensity !== undefined || f.householdIncome !== undefined, propensity: household!.propensity }));
   }
   const jobs = f.jobs ?? guessJobs(t);
   const all = measures(t, {
@@ -124,7 +120,7 @@ export function prepareModels(t: Table, f: ModelFlags, file?: string): PreparedM
   settings.push(setting('measures', 'Measures', chosen.map((m) => m.code).join(', '), f.measure ? 'given' : 'default'));
   const conv = conventions(models, chosen, { typeII: state });
   const rounds = splitRounds(f.split);
-  if (rounds) settings.push(setting('split', 'Indirect effect split', 'rounds', 'given', 'First round (c′A) and later rounds (industrial support)'));
+  if (rounds) settings.push(roundsSetting());
   const assumptions = [...modelAssumptions(t, models.closure, { typeII: state }), ...conventionLines(conv, { closure: false, rounds })];
   return { models, measures: chosen, settings, assumptions, closure: state, conventions: conv, rounds };
 }

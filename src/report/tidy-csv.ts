@@ -1,6 +1,7 @@
 /**
  * The impacts as one tidy table (one observation a line): `scenario, sector, measure, effect,
- * value, unit`, with `effect` one of direct, indirect, induced and total, for every scenario,
+ * value, unit`, with `effect` one of direct, indirect, induced and total (and, for impacts split
+ * into rounds, first-round and later-rounds after indirect), for every scenario,
  * sector and measure (no totals rows: they are sums of the lines). Written by src/io's
  * `cellsToCsv` (text cells neutralised against formulas, numbers in their shortest exact form,
  * never in a locale), so that a spreadsheet, R or pandas reads it as it is.
@@ -21,7 +22,7 @@ export const TIDY_EFFECTS = ['direct', 'indirect', 'induced', 'total'] as const;
 export interface TidyScenario {
   scenario: string;
   sectors: Pick<Axis, 'codes'>;
-  measures: readonly Pick<MeasureImpact, 'measure' | 'unit' | 'direct' | 'indirect' | 'induced' | 'total'>[];
+  measures: readonly (Pick<MeasureImpact, 'measure' | 'unit' | 'direct' | 'indirect' | 'induced' | 'total'> & Partial<Pick<MeasureImpact, 'firstRound' | 'laterRounds'>>)[];
 }
 
 /** A note line: `# ` and the text on one line. */
@@ -38,6 +39,12 @@ export function tidyRows(list: readonly TidyScenario[]): Cell[][] {
         for (const e of TIDY_EFFECTS) {
           const v = m[e][i]!;
           rows.push([s.scenario, code, m.measure.code, e, Number.isFinite(v) ? (v === 0 ? 0 : v) : null, m.unit]);
+          // With the rounds split, the indirect effect's two parts follow it (they add up to it).
+          if (e === 'indirect' && m.firstRound && m.laterRounds)
+            for (const [name, part] of [['first-round', m.firstRound], ['later-rounds', m.laterRounds]] as const) {
+              const p = part[i]!;
+              rows.push([s.scenario, code, m.measure.code, name, Number.isFinite(p) ? (p === 0 ? 0 : p) : null, m.unit]);
+            }
         }
       });
   return rows;

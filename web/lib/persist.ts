@@ -190,6 +190,7 @@ export function viewsToSettings(v: ViewState): Record<string, SettingValue> {
     version: v.version,
     measure: v.measure,
     household: v.household,
+    rounds: v.rounds,
     activeScenario: nameOf(v.activeScenario),
     multipliers: v.multipliers,
     linkages: v.linkages,

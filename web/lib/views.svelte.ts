@@ -9,7 +9,8 @@
  * even while its number is still empty); `scenarioOf` turns a draft into the engine's Scenario
  * and `draftOf` the other way, so that project and scenario files hold engine scenarios.
  */
-import type { DemandChange, HouseholdOptions, PlainTable, Scenario } from '../../engine/index';
+import type { ClosureBasis, DemandChange, HouseholdOptions, PlainTable, Scenario } from '../../engine/index';
+import { CLOSURE_BASES } from '../../engine/household';
 import { readScenarios } from '../../src/project/scenarios';
 import demoScenarios from '../../data-demo/scenarios.json';
 import type { AnalysisSetup } from '../worker/ops/analyses';
@@ -29,8 +30,17 @@ export interface HouseholdSetting {
   propensity: number | null;
   /** A household income (not in the table) that spending is divided by; null or absent: none. */
   householdIncome?: number | null;
-  /** What spending is divided by when neither a share nor an income is given: labour income (default) or the column's own total. */
+  /** Older saved work: what spending is divided by when neither a share nor an income is given (labour income or the column's own total). */
   basis?: 'labour-income' | 'consumption-total' | null;
+  /**
+   * What household spending is divided by, one of the engine's four closure bases, as chosen in
+   * the closure settings. Absent or null (older saved work): inferred as before (a share given:
+   * propensity; else an income given: household-income; else `basis`, else labour-income), so
+   * older projects open with the same closure.
+   */
+  closureBasis?: ClosureBasis | null;
+  /** Households' purchases from households (the corner cell of a closed table), in money units; null or absent: 0. */
+  ownPurchases?: number | null;
 }
 
 export interface DraftChange {
@@ -67,6 +77,8 @@ export interface ViewState {
   /** The measure the views show (a measure code: output, value-added, labour-income, a satellite code). */
   measure: string;
   household: HouseholdSetting | null;
+  /** Split the indirect effect into the first round and the later rounds (industrial support) in multipliers, impacts and the report. */
+  rounds: boolean;
   scenarios: DraftScenario[];
   /** The id of the scenario open in the builder. */
   activeScenario: string | null;
@@ -95,6 +107,7 @@ export function defaultViews(): ViewState {
     version: VIEWS_VERSION,
     measure: 'output',
     household: null,
+    rounds: false,
     scenarios: [],
     activeScenario: null,
     multipliers: { show: 'simple', sort: 'simple', descending: true, limit: 30 },
@@ -167,12 +180,20 @@ function householdFrom(v: unknown, notes: string[]): HouseholdSetting | null {
   const hi = v.householdIncome;
   if (hi !== null && hi !== undefined && !(isNum(hi) && hi > 0)) notes.push(`household.householdIncome: ${JSON.stringify(hi)} is not a positive amount; left out`);
   const basis = v.basis === 'consumption-total' || v.basis === 'labour-income' ? v.basis : null;
+  const cb = (CLOSURE_BASES as readonly unknown[]).includes(v.closureBasis) ? (v.closureBasis as ClosureBasis) : null;
+  if (v.closureBasis !== null && v.closureBasis !== undefined && !cb) notes.push(`household.closureBasis: ${JSON.stringify(v.closureBasis)} is not one of ${CLOSURE_BASES.join(', ')}; the basis is inferred from the figures given`);
+  const own = v.ownPurchases;
+  if (own !== null && own !== undefined && !(isNum(own) && own >= 0)) notes.push(`household.ownPurchases: ${JSON.stringify(own)} is not an amount of 0 or more; left out`);
   const out: HouseholdSetting = { use: v.use, income: [...v.income], consumption: v.consumption, propensity: isNum(p) && p >= 0 && p <= 1 ? p : null };
   // The two later fields only when set, so that older snapshots restore unchanged.
   if (isNum(hi) && hi > 0) out.householdIncome = hi;
   else if (hi === null) out.householdIncome = null;
   if (basis) out.basis = basis;
   else if (v.basis === null) out.basis = null;
+  if (cb) out.closureBasis = cb;
+  else if (v.closureBasis === null) out.closureBasis = null;
+  if (isNum(own) && own >= 0) out.ownPurchases = own;
+  else if (own === null) out.ownPurchases = null;
   return out;
 }
 
@@ -194,6 +215,8 @@ export function restoreViews(snapshot: unknown): string[] {
   if (isStr(s.measure) && s.measure) out.measure = s.measure;
   else if (s.measure !== undefined) notes.push('measure: not a measure code; output is used');
   out.household = householdFrom(s.household, notes);
+  if (typeof s.rounds === 'boolean') out.rounds = s.rounds;
+  else if (s.rounds !== undefined) notes.push('rounds: not true or false; the indirect effect is not split');
   const ids = new Set<string>();
   if (Array.isArray(s.scenarios)) out.scenarios = s.scenarios.map((x, i) => scenarioFrom(x, `scenarios[${i}]`, notes, ids)).filter((x): x is DraftScenario => x !== null);
   else if (s.scenarios !== undefined) notes.push('scenarios: not a list; no scenarios were restored');
@@ -279,10 +302,23 @@ export function householdArg(h: HouseholdSetting | null = viewState.household): 
   if (!h) return 'guess';
   if (!h.use) return 'none';
   const o: HouseholdOptions = { income: [...h.income], consumption: h.consumption };
-  if (h.propensity !== null) o.propensity = h.propensity;
-  else if (h.householdIncome) o.householdIncome = h.householdIncome;
-  else if (h.basis) o.basis = h.basis;
+  const basis = householdBasisOf(h);
+  // Only the figure the basis uses goes to the worker (the others stay in the settings, so
+  // switching back and forth loses nothing the user typed). A basis without its figure is sent
+  // as it is: the engine refuses it and the page says what is missing.
+  if (h.closureBasis || h.basis) o.basis = basis;
+  if (basis === 'propensity' && h.propensity !== null) o.propensity = h.propensity;
+  if (basis === 'household-income' && h.householdIncome) o.householdIncome = h.householdIncome;
+  if (h.ownPurchases) o.ownPurchases = h.ownPurchases;
   return o;
+}
+
+/** The closure basis a setting means: the one chosen, or (older saved work) inferred from the figures given, as before. */
+export function householdBasisOf(h: HouseholdSetting): ClosureBasis {
+  if (h.closureBasis) return h.closureBasis;
+  if (h.propensity !== null) return 'propensity';
+  if (h.householdIncome) return 'household-income';
+  return h.basis ?? 'labour-income';
 }
 
 // ---------------------------------------------------------------------------------------------

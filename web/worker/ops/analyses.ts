@@ -116,12 +116,12 @@ export const analysisOps: Record<string, Handler> = {
     return out;
   },
 
-  /** Multipliers of every measure: direct, indirect, simple, Type I, and with the closure induced, total, Type II. */
-  multipliers: (args: { household?: HouseholdChoice }, ctx): MultipliersResult => {
+  /** Multipliers of every measure: direct, indirect (with `rounds`, its first and later rounds), simple, Type I, and with the closure induced, total, Type II. */
+  multipliers: (args: { household?: HouseholdChoice; rounds?: boolean }, ctx): MultipliersResult => {
     ctx.progress(0, 'building the models');
     const a = analysisModels(args?.household);
     ctx.progress(0.3, 'multipliers');
-    const list = multipliers(a.models, a.measures).map(({ sectors: _s, about: _a, cautions: _c, ...rest }) => rest);
+    const list = multipliers(a.models, a.measures, { rounds: args?.rounds === true }).map(({ sectors: _s, about: _a, cautions: _c, ...rest }) => rest);
     const t = current().table;
     const out: MultipliersResult = {
       about: MULTIPLIERS_ABOUT,
@@ -169,10 +169,10 @@ export const analysisOps: Record<string, Handler> = {
 
   /**
    * Impacts of several scenarios (one multi-column solve for the usable ones), split into direct,
-   * indirect and induced for every measure, and compared against a base (a position among the
+   * indirect (with `rounds`, also its first round and later rounds) and induced for every measure, and compared against a base (a position among the
    * usable scenarios, or a name; default the first).
    */
-  impacts: (args: { scenarios: Scenario[]; household?: HouseholdChoice; base?: string | number }, ctx): ImpactsResult => {
+  impacts: (args: { scenarios: Scenario[]; household?: HouseholdChoice; base?: string | number; rounds?: boolean }, ctx): ImpactsResult => {
     const t = current().table;
     const list = Array.isArray(args?.scenarios) ? args.scenarios : [];
     ctx.progress(0, 'checking the scenarios');
@@ -181,7 +181,7 @@ export const analysisOps: Record<string, Handler> = {
     ctx.progress(0.2, 'building the models');
     const a = analysisModels(args?.household);
     ctx.progress(0.4, `solving for ${usable.length} scenario${usable.length === 1 ? '' : 's'}`);
-    const all = impacts(a.models, usable, a.measures);
+    const all = impacts(a.models, usable, a.measures, { rounds: args?.rounds === true });
     const out: ImpactsResult = {
       about: IMPACT_ABOUT,
       compareAbout: COMPARE_ABOUT,

@@ -5,11 +5,13 @@
  * sector codes, and collecting the typed arrays of a result so they are transferred, not copied.
  */
 import {
+  CLOSURE_BASIS_ABOUT,
   ClosedModel,
   HOUSEHOLD_ABOUT,
   InputError,
   guessHousehold,
   householdClosure,
+  inducedPlausibility,
   measureInfo,
   measures,
   moneyUnit,
@@ -40,6 +42,12 @@ export interface HouseholdInfo {
   /** The share of household income spent on the table's products, and the closure basis behind it. */
   share?: number;
   basis?: string;
+  /** What the basis divides household spending by, in words (the engine's CLOSURE_BASIS_ABOUT). */
+  basisAbout?: string;
+  /** D: the household income spending is divided by (money units). */
+  denominator?: number;
+  /** Households' purchases from households (money units), when given. */
+  ownPurchases?: number;
   /** s = 1 − hᵣ′L h꜀ (the closed model is productive when s > 0). */
   schur?: number;
   /** Why there is no closed model, in words (no guess possible, or the closure failed). */
@@ -54,7 +62,7 @@ export interface AnalysisModels {
 }
 
 function choiceKey(h: HouseholdChoice | undefined): string {
-  return typeof h === 'string' || h === undefined ? (h ?? 'guess') : JSON.stringify({ i: h.income, c: h.consumption, p: h.propensity ?? null, hi: h.householdIncome ?? null, b: h.basis ?? null });
+  return typeof h === 'string' || h === undefined ? (h ?? 'guess') : JSON.stringify({ i: h.income, c: h.consumption, p: h.propensity ?? null, hi: h.householdIncome ?? null, b: h.basis ?? null, o: h.ownPurchases ?? null });
 }
 
 /**
@@ -83,10 +91,17 @@ function build(table: Table, choice: HouseholdChoice): AnalysisModels {
       info.spendingRate = closure.spendingRate;
       info.share = closure.share;
       info.basis = closure.basis;
+      info.basisAbout = CLOSURE_BASIS_ABOUT[closure.basis];
+      info.denominator = closure.denominator;
+      if (closure.ownPurchases) info.ownPurchases = closure.ownPurchases;
       info.schur = closure.schur;
       info.findings = closure.findings;
       models.closure = closure;
       models.closed = new ClosedModel(open, closure);
+      // The same plausibility check as the command line's buildModels.
+      const f = inducedPlausibility(table, open, models.closed);
+      if (f) closure.findings.push(f);
+      info.findings = [...closure.findings];
       info.used = true;
     } catch (e) {
       if (!(e instanceof InputError)) throw e;

@@ -12,6 +12,8 @@ import type { ReportInputFile, ReportSetting, Section } from '../../../src/repor
 import { buildReport, checksSection, comparisonSection, linkagesSection, modelAssumptions, multipliersSection, scenarioSection, setting, textSection, tornadoSection } from '../../../src/report/model';
 import type { Report } from '../../../src/report/model';
 import { digestHex } from '../../../src/report/sha256';
+import { closureSettings, roundsSetting } from '../../../src/report/closure-settings';
+import { conventionLines, conventions } from '../../../engine/conventions';
 import type { ReportFormat } from '../../../src/report/write';
 import { version } from '../../../package.json';
 import { InputError } from '../../../engine/index';
@@ -36,6 +38,8 @@ export interface ReportRequest {
   /** Settings of the workbench to state in the report (layout mapping, kind of table...). */
   settings?: ReportSetting[];
   createdAt?: string;
+  /** Split the indirect effect into the first round and the later rounds (industrial support), as `--split rounds`. */
+  rounds?: boolean;
   /** The edits made to the table in the workbench since it was read, one line each. */
   edits?: string[];
 }
@@ -68,9 +72,10 @@ export async function buildWorkbenchReport(req: ReportRequest, keep: { impacts?:
   const list = Array.isArray(req.scenarios) ? req.scenarios : [];
   const usable = list.filter((sc) => !checkScenario(t, sc).length).map((sc) => resolveScenario(t, sc));
   const skipped = list.filter((sc) => checkScenario(t, sc).length);
-  const mult = multipliers(models, a.measures);
+  const rounds = req.rounds === true;
+  const mult = multipliers(models, a.measures, { rounds });
   const link = linkages(t, openModel());
-  const results = usable.length ? impacts(models, usable, a.measures) : [];
+  const results = usable.length ? impacts(models, usable, a.measures, { rounds }) : [];
   keep.impacts = results;
   const settings: ReportSetting[] = [...(req.settings ?? [])];
   const h = a.household;
@@ -78,10 +83,12 @@ export async function buildWorkbenchReport(req: ReportRequest, keep: { impacts?:
     settings.push(setting('householdColumn', 'Household consumption column', h.options.consumption, h.choice === 'custom' ? 'given' : 'guessed'));
     const inc = Array.isArray(h.options.income) ? h.options.income : [h.options.income];
     settings.push(setting('labourIncomeRow', 'Labour-income row(s)', inc.join(', '), h.choice === 'custom' ? 'given' : 'guessed'));
-    settings.push(setting('propensity', 'Share of income spent in the economy', h.options.propensity ?? null, h.options.propensity !== undefined ? 'given' : 'default', h.options.propensity === undefined ? 'From the consumption column ÷ total labour income' : undefined));
+    // The basis, its figure and the implied spending share, in the command line's words.
+    if (models.closure) settings.push(...closureSettings(models.closure, { basisGiven: (h.choice === 'custom' && h.options.basis !== undefined) || h.options.propensity !== undefined || h.options.householdIncome !== undefined, propensity: h.options.propensity }));
   } else if (h.choice === 'none') settings.push(setting('household', 'Household closure (Type II)', 'off', 'given', 'Open model only'));
   else settings.push(setting('household', 'Household closure (Type II)', 'not used', 'guessed', h.problem));
   settings.push(setting('measures', 'Measures', a.measures.map((m) => m.code).join(', '), 'default'));
+  if (rounds) settings.push(roundsSetting());
 
   const sections: Section[] = [];
   if (usable.length) {
@@ -129,6 +136,7 @@ export async function buildWorkbenchReport(req: ReportRequest, keep: { impacts?:
     settings.push(setting('edits', 'Edits to the table after reading', req.edits.length, 'given', 'Listed in the section Edits to the table'));
   }
   const checks = [...(req.readFindings ?? []), ...s.findings];
+  const typeII = h.used ? 'closed' : h.choice === 'none' ? 'off' : 'not-found';
   sections.push(checksSection(checks, { condition: openModel().condition() }));
 
   const inputs: ReportInputFile[] = (req.source ?? []).map((x) => {
@@ -152,7 +160,7 @@ export async function buildWorkbenchReport(req: ReportRequest, keep: { impacts?:
     locale: req.locale ?? 'en',
     inputs,
     settings,
-    assumptions: modelAssumptions(t, models.closure, { typeII: h.used ? 'closed' : h.choice === 'none' ? 'off' : 'not-found' }),
+    assumptions: [...modelAssumptions(t, models.closure, { typeII }), ...conventionLines(conventions(models, a.measures, { typeII }), { closure: false, rounds })],
     findings: [...checks, ...(models.closure?.findings ?? []), ...link.findings, ...results.flatMap((r) => r.findings)],
     sections,
   });
