@@ -1,34 +1,21 @@
 /** `ripplewise regionalise NATIONAL --regional FILE --method slq|cilq|flq|aflq|sdp [--delta 0.3] --out FILE`: a region's table from the nation's. */
 import type { Command } from 'commander';
-import { checks } from '../../../engine/checks';
-import { LeontiefModel } from '../../../engine/leontief';
-import type { BasisKind, RegionalMethod } from '../../../engine/regional/index';
-import { BASIS_KINDS, DEFAULT_DELTA, METHOD_NAMES, REGIONAL_CAUTIONS, REGIONAL_METHODS, REGIONALISE_ABOUT, regionalise, TwoRegionModel } from '../../../engine/regional/index';
-import { buildReport, checksSection, setting } from '../../report/model';
+import { METHOD_NAMES, REGIONAL_CAUTIONS, REGIONALISE_ABOUT, TwoRegionModel } from '../../../engine/regional/index';
+import { buildReport, checksSection } from '../../report/model';
 import { regionalSection, twoRegionSection } from '../../report/regional';
 import type { CommonFlags } from '../common';
-import { checkedTable, examples, numberOption, outputOptions, reportBase, reportInputs, tableLine, tableOptions } from '../common';
+import { checkedTable, examples, outputOptions, reportBase, reportInputs, tableLine, tableOptions } from '../common';
 import type { CliContext } from '../context';
 import { styles } from '../context';
-import { UsageError } from '../errors';
-import { reportInput } from '../files';
 import type { Action } from '../main';
 import { deliver, planOutputs } from '../output';
 import { progress } from '../progress';
-import { chooseBasis, readValues } from '../regional-input';
+import { regionalChoices, regionalOptions, regionalRun } from '../regional-input';
+import type { RegionalFlags } from '../regional-input';
 import { tableJson, tableWriters } from '../table-out';
 import { CAUTION_LINE, fixed, textTable } from '../text';
 
-interface Flags extends CommonFlags {
-  regional?: string;
-  regionalSheet?: string;
-  method?: string;
-  delta?: string;
-  basis?: string;
-  regionalColumn?: string;
-  nationalColumn?: string;
-  region?: string;
-  concordance?: string;
+interface Flags extends CommonFlags, RegionalFlags {
   twoRegion?: boolean;
 }
 
@@ -42,15 +29,8 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
     .argument('<national>', "the national table ('-' for standard input)")
     .description(`${REGIONALISE_ABOUT} ${REGIONAL_CAUTIONS[0]}`)
     .requiredOption('-r, --regional <file>', "the regional file: a code column, optionally labels, then the region's values by sector (and the nation's, if the table has none), under a header such as 'Region (jobs)'")
-    .option('--regional-sheet <name>', 'the sheet of a regional workbook')
-    .option('-m, --method <method>', `${REGIONAL_METHODS.join('|')}: ${REGIONAL_METHODS.map((m) => METHOD_NAMES[m]).join('; ')}`, 'flq')
-    .option('--delta <number>', `δ of FLQ and AFLQ, from 0 to 1 (default ${DEFAULT_DELTA}, a common default)`)
-    .option('--basis <kind>', `what the regional values count: ${BASIS_KINDS.join('|')}`, 'employment')
-    .option('--regional-column <name>', "the column of the region's values (a header or a number from 1; default: the one named for a region, else the first)")
-    .option('--national-column <name>', "the column of the nation's values (default: the one named for the nation, else from the table: jobs satellite, output, or compensation row)")
-    .option('--region <name>', 'the name of the region, shown in the report')
-    .option('--concordance <file>', "a concordance from the regional file's codes to the table's (values summed per table code)")
     .option('--two-region', 'also build the two-region model (the region and the rest of the nation) and split each sector’s output multiplier into intraregional, feedback and spillover');
+  regionalOptions(cmd);
   tableOptions(cmd);
   outputOptions(cmd, FORMATS, { locale: true });
   examples(cmd, [
@@ -63,28 +43,17 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
 }
 
 async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
-  const method = (f.method ?? 'flq').toLowerCase() as RegionalMethod;
-  if (!REGIONAL_METHODS.includes(method)) throw new UsageError(`--method must be one of ${REGIONAL_METHODS.join(', ')}; got '${f.method}'`, 'bad-method');
-  const kind = (f.basis ?? 'employment').toLowerCase() as BasisKind;
-  if (!BASIS_KINDS.includes(kind)) throw new UsageError(`--basis must be one of ${BASIS_KINDS.join(', ')}; got '${f.basis}'`, 'bad-basis');
-  const delta = numberOption(f.delta, '--delta', { min: 0, max: 1 });
-  if (delta !== undefined && method !== 'flq' && method !== 'aflq') throw new UsageError(`--delta applies to FLQ and AFLQ, not ${method.toUpperCase()}`, 'delta-not-used');
-  if (!f.regional) throw new UsageError('regionalise needs --regional FILE', 'missing-option');
+  const { method } = regionalChoices(f);
   const plan = planOutputs(f, FORMATS);
   const bar = await progress(ctx, 'regionalise', f.twoRegion ? 5 : 4, { json: !!f.json });
   try {
     bar.step('national table');
     const loaded = await checkedTable(ctx, name, f);
     const nat = loaded.table;
-    bar.step('regional file');
-    const read = await readValues(ctx, f.regional, 'regional file', nat.sectors, { ...(f.regionalSheet ? { sheet: f.regionalSheet } : {}), ...(f.concordance ? { concordance: f.concordance } : {}) });
-    const choice = chooseBasis(nat, read, kind, { ...(f.regionalColumn ? { regionalColumn: f.regionalColumn } : {}), ...(f.nationalColumn ? { nationalColumn: f.nationalColumn } : {}), ...(f.region ? { name: f.region } : {}) });
-    bar.step('quotients');
-    const r = regionalise(nat, choice.basis, { method, ...(delta !== undefined ? { delta } : {}), source: { file: reportInput(read.file, 'regional').name, sha256: read.file.sha256 } });
-    const found = [...read.findings, ...choice.findings, ...r.findings, ...checks(r.table)];
+    bar.step('regional file and quotients');
+    const reg = await regionalRun(ctx, nat, f);
+    const { choice, result: r, findings: found, national: multN, regional: multR, settings, delta, kind } = reg;
     bar.step('multipliers');
-    const multN = new LeontiefModel(r.national).outputMultipliers();
-    const multR = new LeontiefModel(r.A).outputMultipliers();
     let splits: ReturnType<TwoRegionModel['split']>['totals'][] | undefined;
     if (f.twoRegion) {
       bar.step('two regions');
@@ -96,21 +65,12 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
         return two.split(d).totals;
       });
     }
-    const settings = [
-      setting('method', 'Regionalisation method', METHOD_NAMES[method], f.method ? 'given' : 'default'),
-      ...(r.delta !== undefined ? [setting('delta', 'δ (FLQ, AFLQ)', r.delta, delta !== undefined ? 'given' : 'default', 'a common default, not measured for this region')] : []),
-      ...(r.lambda !== undefined ? [setting('lambda', 'λ = [log2(1 + regional/national)]^δ', r.lambda, 'default', 'computed')] : []),
-      setting('basis', 'Basis', `${kind} (${choice.basis.unit})`, f.basis ? 'given' : 'default'),
-      setting('regionValues', "The region's values", choice.regionFrom, f.regionalColumn ? 'given' : 'guessed'),
-      setting('nationValues', "The nation's values", choice.nationFrom, f.nationalColumn ? 'given' : 'guessed'),
-      setting('share', "The region's share of the nation", r.share, 'default', 'computed'),
-    ];
     const report = () =>
       buildReport({
         ...reportBase(ctx, f),
         title: r.table.meta.title ?? 'Regional table',
         table: r.table,
-        inputs: reportInputs(loaded, [reportInput(read.file, 'regional', read.sheet), ...(read.concordance ? [reportInput(read.concordance, 'concordance')] : [])]),
+        inputs: reportInputs(loaded, reg.inputs),
         settings,
         assumptions: [...(r.table.meta.notes ?? []).slice(-3)],
         findings: found,

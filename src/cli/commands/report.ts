@@ -23,8 +23,11 @@ import { deliver, planOutputs } from '../output';
 import { progress } from '../progress';
 import type { LoadedScenarios } from '../scenario-input';
 import { loadScenarios } from '../scenario-input';
+import { regionalChoices, regionalOptions, regionalRun } from '../regional-input';
+import type { RegionalFlags } from '../regional-input';
+import { regionalSection } from '../../report/regional';
 
-interface Flags extends CommonFlags, ModelFlags {
+interface Flags extends CommonFlags, ModelFlags, RegionalFlags {
   scenario?: string;
   name?: string[];
   title?: string;
@@ -48,7 +51,9 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
     .option('--no-tornado', 'leave out the sensitivity tornado')
     .option('--tornado-sector <code>', "the tornado's result: the output multiplier of this sector (default: the first scenario's total output, else the largest output multiplier)")
     .option('--tornado-top <n>', 'coefficients in the tornado (default 10)')
-    .option('--tornado-percent <p>', 'the swing of each coefficient, in percent (default 10)');
+    .option('--tornado-percent <p>', 'the swing of each coefficient, in percent (default 10)')
+    .option('-r, --regional <file>', "add the regional table estimated from this file (a code column, optionally labels, then the region's values by sector) by --method: quotients and the national and regional multipliers side by side");
+  regionalOptions(cmd);
   tableOptions(cmd);
   modelOptions(cmd);
   outputOptions(cmd, FORMATS, { locale: true });
@@ -57,6 +62,7 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
     ['ripplewise report table.csv --scenario s.json --out r.html --out r.xlsx --out r.json', 'three formats at once'],
     ['ripplewise report table.csv --scenario s.json --name "New plant" --out r.html', 'one scenario'],
     ['ripplewise report table.csv --tornado-sector FOOD --tornado-percent 20 --out r.html', 'the tornado of one multiplier'],
+    ['ripplewise report national.csv --regional county-jobs.csv --method flq --out r.html', 'with the regional table (FLQ, δ = 0.3) beside the national one'],
   ]);
   cmd.action((table: string, f: Flags) => run((ctx) => action(ctx, table, f), !!f.json));
 }
@@ -66,6 +72,9 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
   if (!plan.length && !f.json) throw new UsageError('report writes files: give --out FILE.html (or .xlsx, .json, .csv), or --format', 'no-output', 'For a quick look in the terminal, use multipliers, impact or linkages');
   const top = numberOption(f.tornadoTop, '--tornado-top', { min: 1, max: 100, integer: true }) ?? 10;
   const percent = numberOption(f.tornadoPercent, '--tornado-percent', { min: 0.001, max: 100 }) ?? 10;
+  const regionalGiven = f.method !== undefined || f.delta !== undefined || f.basis !== undefined || f.regionalColumn !== undefined || f.nationalColumn !== undefined || f.region !== undefined || f.concordance !== undefined || f.regionalSheet !== undefined;
+  if (regionalGiven && !f.regional) throw new UsageError('the regional options (--method, --delta, --basis, ...) need --regional FILE', 'missing-option');
+  if (f.regional) regionalChoices(f);
   const bar = await progress(ctx, 'report', 6, f);
   try {
     bar.step('reading the table');
@@ -91,6 +100,11 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
       sc.resolved.forEach((r, k) => sections.push(scenarioSection(r, results[k]!, { index: k + 1 })));
     }
     sections.push(multipliersSection(mult), linkagesSection(link));
+    const reg = f.regional ? await regionalRun(ctx, t, f) : undefined;
+    if (reg) {
+      sections.push(regionalSection({ result: reg.result, national: reg.national, regional: reg.regional }));
+      settings.push(...reg.settings.map((x) => ({ ...x, key: `regional.${x.key}`, label: `Regional table: ${x.label}` })));
+    }
     if (f.tornado !== false) {
       bar.step('sensitivity');
       let target: ResultTarget;
@@ -128,10 +142,10 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
         title,
         subtitle: t.meta.title ?? loaded.file.name,
         table: t,
-        inputs: reportInputs(loaded, sc ? [reportInput(sc.file, 'scenarios')] : []),
+        inputs: reportInputs(loaded, [...(sc ? [reportInput(sc.file, 'scenarios')] : []), ...(reg?.inputs ?? [])]),
         settings,
         assumptions: prep.assumptions,
-        findings: [...loaded.checks, ...(prep.models.closure?.findings ?? []), ...link.findings, ...results.flatMap((r) => r.findings)],
+        findings: [...loaded.checks, ...(prep.models.closure?.findings ?? []), ...link.findings, ...results.flatMap((r) => r.findings), ...(reg?.findings ?? [])],
         sections,
       }));
     return deliver(
