@@ -6,11 +6,9 @@
  * reads the files from the command line's inputs.
  */
 import type { Command } from 'commander';
-import { checks } from '../../engine/checks';
 import type { Finding } from '../../engine/findings';
-import { LeontiefModel } from '../../engine/leontief';
 import type { BasisKind, RegionalMethod, Regionalised } from '../../engine/regional/index';
-import { BASIS_KINDS, DEFAULT_DELTA, METHOD_NAMES, REGIONAL_METHODS, regionalise } from '../../engine/regional/index';
+import { BASIS_KINDS, DEFAULT_DELTA, METHOD_NAMES, REGIONAL_METHODS } from '../../engine/regional/index';
 import type { Axis, Table } from '../../engine/table';
 import { readConcordanceGrid, readConcordanceJson, readGrid } from '../io/index';
 import type { ReportInputFile, ReportSetting } from '../report/model';
@@ -20,10 +18,10 @@ import { UsageError } from './errors';
 import { readInput, reportInput } from './files';
 import type { InputFile } from './files';
 import { sheetOption } from './table-input';
-import { chooseBasis, regionalSettings, valuesFromGrid } from './regional-values';
+import { regionalFromValues, valuesFromGrid } from './regional-values';
 import type { BasisChoice, ValuesRead } from './regional-values';
 
-export { valuesFromGrid, pickColumn, chooseBasis, regionalSettings } from './regional-values';
+export { valuesFromGrid, pickColumn, chooseBasis, regionalSettings, regionalFromValues } from './regional-values';
 export type { ValueColumn, ValuesRead, BasisChoice } from './regional-values';
 
 /** Read a file of values by code (and an optional concordance) for the table's sectors. */
@@ -107,12 +105,7 @@ export async function regionalRun(ctx: CliContext, nat: Table, f: RegionalFlags)
   const { method, kind, delta } = regionalChoices(f);
   if (!f.regional) throw new UsageError('a regional table needs --regional FILE', 'missing-option');
   const read = await readValues(ctx, f.regional, 'regional file', nat.sectors, { ...(f.regionalSheet ? { sheet: f.regionalSheet } : {}), ...(f.concordance ? { concordance: f.concordance } : {}) });
-  const choice = chooseBasis(nat, read, kind, { ...(f.regionalColumn ? { regionalColumn: f.regionalColumn } : {}), ...(f.nationalColumn ? { nationalColumn: f.nationalColumn } : {}), ...(f.region ? { name: f.region } : {}) });
-  const result = regionalise(nat, choice.basis, { method, ...(delta !== undefined ? { delta } : {}), source: { file: reportInput(read.file, 'regional').name, sha256: read.file.sha256 } });
-  const findings = [...read.findings, ...choice.findings, ...result.findings, ...checks(result.table)];
-  const national = new LeontiefModel(result.national).outputMultipliers();
-  const regional = new LeontiefModel(result.A).outputMultipliers();
-  const settings = regionalSettings(result, choice, { method: !!f.method, delta: delta !== undefined, basis: !!f.basis, regionalColumn: !!f.regionalColumn, nationalColumn: !!f.nationalColumn });
+  const e = regionalFromValues(nat, read, { method, kind, delta, regionalColumn: f.regionalColumn, nationalColumn: f.nationalColumn, region: f.region, source: { file: reportInput(read.file, 'regional').name, sha256: read.file.sha256 } }, { method: !!f.method, basis: !!f.basis });
   const inputs = [reportInput(read.file, 'regional', read.sheet), ...(read.concordance ? [reportInput(read.concordance, 'concordance')] : [])];
-  return { method, kind, delta, read, choice, result, national, regional, findings, settings, inputs };
+  return { method, kind, delta, read, ...e, findings: [...read.findings, ...e.findings], inputs };
 }

@@ -18,8 +18,10 @@ import type { Finding } from '../../engine/findings';
 import type { Axis, Table } from '../../engine/table';
 import { guessJobs } from '../../engine/measures';
 import { guessLabourIncomeRow } from '../../engine/household';
-import type { BasisKind, RegionalBasis, Regionalised } from '../../engine/regional/index';
-import { METHOD_NAMES } from '../../engine/regional/index';
+import type { BasisKind, RegionalBasis, RegionalMethod, Regionalised } from '../../engine/regional/index';
+import { METHOD_NAMES, regionalise } from '../../engine/regional/index';
+import { checks } from '../../engine/checks';
+import { LeontiefModel } from '../../engine/leontief';
 import type { ReportSetting } from '../report/model';
 import { setting } from '../report/model';
 import type { Grid } from '../io/index';
@@ -211,4 +213,31 @@ export function regionalSettings(r: Regionalised, choice: Pick<BasisChoice, 'bas
     setting('nationValues', "The nation's values", choice.nationFrom, given.nationalColumn ? 'given' : 'guessed'),
     setting('share', "The region's share of the nation", r.share, 'default', 'computed'),
   ];
+}
+
+export interface RegionalEstimate {
+  choice: BasisChoice;
+  result: Regionalised;
+  /** Output multipliers of the national and the regional table. */
+  national: Float64Array;
+  regional: Float64Array;
+  /** The basis's and the regionalisation's findings, and the regional table's checks. */
+  findings: Finding[];
+  settings: ReportSetting[];
+}
+
+/** Regionalise the national table from values read (a file's, or typed): the basis chosen, the regional table, both tables' multipliers, the settings. */
+export function regionalFromValues(
+  nat: Table,
+  read: Pick<ValuesRead, 'columns'> & { file: { name: string } },
+  o: { method: RegionalMethod; kind: BasisKind; delta?: number | undefined; regionalColumn?: string | undefined; nationalColumn?: string | undefined; region?: string | undefined; source?: { file: string; sha256: string } },
+  given: { method?: boolean; basis?: boolean } = {},
+): RegionalEstimate {
+  const choice = chooseBasis(nat, read as ValuesRead, o.kind, { ...(o.regionalColumn ? { regionalColumn: o.regionalColumn } : {}), ...(o.nationalColumn ? { nationalColumn: o.nationalColumn } : {}), ...(o.region ? { name: o.region } : {}) });
+  const result = regionalise(nat, choice.basis, { method: o.method, ...(o.delta !== undefined ? { delta: o.delta } : {}), ...(o.source ? { source: o.source } : {}) });
+  const findings = [...choice.findings, ...result.findings, ...checks(result.table)];
+  const national = new LeontiefModel(result.national).outputMultipliers();
+  const regional = new LeontiefModel(result.A).outputMultipliers();
+  const settings = regionalSettings(result, choice, { ...given, delta: o.delta !== undefined, regionalColumn: !!o.regionalColumn, nationalColumn: !!o.nationalColumn });
+  return { choice, result, national, regional, findings, settings };
 }
