@@ -125,6 +125,19 @@ export interface BalanceView {
   table?: PlainTable;
 }
 
+/** Row and column sums of a matrix. */
+function sumsOf(X: { rows: number; cols: number; data: Float64Array }): { rowSums: number[]; colSums: number[] } {
+  const rowSums = new Array<number>(X.rows).fill(0);
+  const colSums = new Array<number>(X.cols).fill(0);
+  for (let i = 0; i < X.rows; i++)
+    for (let j = 0; j < X.cols; j++) {
+      const v = X.data[i * X.cols + j]!;
+      rowSums[i] += v;
+      colSums[j] += v;
+    }
+  return { rowSums, colSums };
+}
+
 function axisOf(t: Table, axis: 'sectors' | 'rows' | 'cols', part?: BalancePartName) {
   if (axis === 'sectors') return t.sectors;
   const p = balancePart(t, part ?? 'intermediate');
@@ -204,6 +217,12 @@ export function regionalReportParts(regional?: RegionalRequest, balance?: Balanc
 }
 
 export const regionalOps: Record<string, Handler> = {
+  /** The rows and columns of a part of the current table, with their sums now (the Balance tool's starting targets). */
+  'balance-part': (args: { part: BalancePartName }) => {
+    const { rows, cols, A } = balancePart(current().table, args.part === 'whole' ? 'whole' : 'intermediate');
+    return { rows: { codes: [...rows.codes], labels: [...rows.labels] }, cols: { codes: [...cols.codes], labels: [...cols.labels] }, ...sumsOf(A), negative: A.data.some((x) => x < 0) };
+  },
+
   /** A file of values by code, matched to the current table's sectors (or a part's rows or columns). */
   'regional-values': async (args: { name: string; bytes: ArrayBuffer; sheet?: string; axis?: 'sectors' | 'rows' | 'cols'; part?: BalancePartName }): Promise<ValuesFile> => {
     const bytes = new Uint8Array(args.bytes);
@@ -253,14 +272,7 @@ export const regionalOps: Record<string, Handler> = {
     const max = args.maxIterations ?? 10000;
     const b = balanceOf(args, (k) => ctx.progress(Math.min(1, k / max), `iteration ${k}`));
     const X = b.result.X;
-    const rowSums = new Array<number>(X.rows).fill(0);
-    const colSums = new Array<number>(X.cols).fill(0);
-    for (let i = 0; i < X.rows; i++)
-      for (let j = 0; j < X.cols; j++) {
-        const v = X.data[i * X.cols + j]!;
-        rowSums[i] += v;
-        colSums[j] += v;
-      }
+    const { rowSums, colSums } = sumsOf(X);
     const out: BalanceView = {
       method: b.method,
       methodGiven: !!args.method,
