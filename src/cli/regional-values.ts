@@ -19,7 +19,8 @@ import type { Axis, Table } from '../../engine/table';
 import { guessJobs } from '../../engine/measures';
 import { guessLabourIncomeRow } from '../../engine/household';
 import type { BasisKind, RegionalBasis, RegionalMethod, Regionalised } from '../../engine/regional/index';
-import { METHOD_NAMES, regionalise } from '../../engine/regional/index';
+import { METHOD_NAMES, regionalise, TwoRegionModel } from '../../engine/regional/index';
+import type { TwoRegionSplit } from '../../engine/regional/index';
 import { checks } from '../../engine/checks';
 import { LeontiefModel } from '../../engine/leontief';
 import type { ReportSetting } from '../report/model';
@@ -240,4 +241,15 @@ export function regionalFromValues(
   const regional = new LeontiefModel(result.A).outputMultipliers();
   const settings = regionalSettings(result, choice, { ...given, delta: o.delta !== undefined, regionalColumn: !!o.regionalColumn, nationalColumn: !!o.nationalColumn });
   return { choice, result, national, regional, findings, settings };
+}
+
+/** The two-region split of one unit of the region's final demand for each sector's product in turn (Miller & Blair 2009, ch. 3). */
+export function twoRegionSplits(nat: Table, basis: RegionalBasis, method: RegionalMethod, delta?: number): TwoRegionSplit['totals'][] {
+  const two = new TwoRegionModel(nat, basis, { method, ...(delta !== undefined ? { delta } : {}) });
+  const n = nat.sectors.codes.length;
+  return nat.sectors.codes.map((_, j) => {
+    const d = new Float64Array(n);
+    d[j] = 1;
+    return two.split(d).totals;
+  });
 }

@@ -103,6 +103,19 @@ describe.skipIf(!present)('the Regionalise step and the Balance tool (worker ope
     expect(view.table.sectors.codes).toEqual(table.sectors.codes);
   });
 
+  it('splits each sector into intraregional, feedback and spillover as `regionalise --two-region` does; the parts add up to the national multiplier', async () => {
+    const bytes = readFileSync(regionalPath);
+    const file = await call<ValuesFile>('regional-values', { name: 'region.csv', bytes: bytes.buffer.slice(bytes.byteOffset, bytes.byteOffset + bytes.length) });
+    const view = await call<RegionalView>('regionalise', { columns: file.columns, method: 'cilq', kind: 'employment', twoRegion: true });
+    const j = JSON.parse((await run(['regionalise', tablePath, '--regional', regionalPath, '--method', 'cilq', '--two-region', '--json'])).stdout);
+    view.twoRegion!.forEach((t, i) => {
+      expect(t.intraregional).toBeCloseTo(j.sectors[i].twoRegion.intraregional, 12);
+      expect(t.spillover).toBeCloseTo(j.sectors[i].twoRegion.spillover, 12);
+      // The two-region model's whole-nation output equals the national model's (Miller & Blair 2009, ch. 3).
+      expect(t.nation).toBeCloseTo(view.national[i]!, 9);
+    });
+  });
+
   it('reads a typed column the same as the file’s region column when the nation’s is given beside it', async () => {
     const region = nation.map((s, k) => Math.round(s.persons * 0.02 * (k + 1)));
     const typed = await call<RegionalView>('regionalise', { columns: [{ name: 'Region (typed)', values: region }, { name: 'Nation (typed)', values: nation.map((s) => s.persons) }], method: 'slq', kind: 'employment' });

@@ -1,6 +1,7 @@
 /** `ripplewise regionalise NATIONAL --regional FILE --method slq|cilq|flq|aflq|sdp [--delta 0.3] --out FILE`: a region's table from the nation's. */
 import type { Command } from 'commander';
-import { METHOD_NAMES, REGIONAL_CAUTIONS, REGIONALISE_ABOUT, TwoRegionModel } from '../../../engine/regional/index';
+import { METHOD_NAMES, REGIONAL_CAUTIONS, REGIONALISE_ABOUT } from '../../../engine/regional/index';
+import type { TwoRegionSplit } from '../../../engine/regional/index';
 import { buildReport, checksSection } from '../../report/model';
 import { regionalSection, twoRegionSection } from '../../report/regional';
 import type { CommonFlags } from '../common';
@@ -11,6 +12,7 @@ import type { Action } from '../main';
 import { deliver, planOutputs } from '../output';
 import { progress } from '../progress';
 import { regionalChoices, regionalOptions, regionalRun } from '../regional-input';
+import { twoRegionSplits } from '../regional-values';
 import type { RegionalFlags } from '../regional-input';
 import { tableJson, tableWriters } from '../table-out';
 import { CAUTION_LINE, fixed, textTable } from '../text';
@@ -54,16 +56,10 @@ async function action(ctx: CliContext, name: string, f: Flags): Promise<number> 
     const reg = await regionalRun(ctx, nat, f);
     const { choice, result: r, findings: found, national: multN, regional: multR, settings, delta, kind } = reg;
     bar.step('multipliers');
-    let splits: ReturnType<TwoRegionModel['split']>['totals'][] | undefined;
+    let splits: TwoRegionSplit['totals'][] | undefined;
     if (f.twoRegion) {
       bar.step('two regions');
-      const two = new TwoRegionModel(nat, choice.basis, { method, ...(delta !== undefined ? { delta } : {}) });
-      const n = nat.sectors.codes.length;
-      splits = nat.sectors.codes.map((_, j) => {
-        const d = new Float64Array(n);
-        d[j] = 1;
-        return two.split(d).totals;
-      });
+      splits = twoRegionSplits(nat, choice.basis, method, delta);
     }
     const report = () =>
       buildReport({

@@ -16,16 +16,16 @@
  */
 import { InputError, makeTable, toPlain } from '../../../engine/index';
 import type { Finding, PlainTable, Table } from '../../../engine/index';
-import type { BalanceMethod, BalanceResult, BasisKind, RegionalMethod } from '../../../engine/regional/index';
+import type { BalanceMethod, BalanceResult, BasisKind, RegionalMethod, TwoRegionSplit } from '../../../engine/regional/index';
 import { BASIS_KINDS, gras, ras, REGIONAL_CAUTIONS, REGIONAL_METHODS } from '../../../engine/regional/index';
 import { readGrid } from '../../../src/io/index';
 import { balancedTable, balancePart } from '../../../src/cli/balance-part';
 import type { BalancePartName } from '../../../src/cli/balance-part';
-import { regionalFromValues, valuesFromGrid } from '../../../src/cli/regional-values';
+import { regionalFromValues, twoRegionSplits, valuesFromGrid } from '../../../src/cli/regional-values';
 import type { RegionalEstimate } from '../../../src/cli/regional-values';
 import type { ReportInputFile, ReportSetting, Section } from '../../../src/report/model';
 import { setting } from '../../../src/report/model';
-import { balanceSection, regionalSection } from '../../../src/report/regional';
+import { balanceSection, regionalSection, twoRegionSection } from '../../../src/report/regional';
 import { digestHex } from '../../../src/report/sha256';
 import type { Handler } from '../context';
 import { current } from './session';
@@ -57,6 +57,8 @@ export interface RegionalRequest {
   regionalColumn?: string;
   nationalColumn?: string;
   region?: string;
+  /** Also the two-region model (the region and the rest of the nation): each sector's split into intraregional, feedback and spillover. */
+  twoRegion?: boolean;
   /** The national table, when it is no longer the current one (the regional table was put in its place). */
   national?: PlainTable;
 }
@@ -83,6 +85,8 @@ export interface RegionalView {
   findings: Finding[];
   cautions: string[];
   settings: ReportSetting[];
+  /** The two-region split per unit of the region's final demand for each sector, when asked. */
+  twoRegion?: TwoRegionSplit['totals'][];
   /** The regional table, ready to be used as a project's table. */
   table: PlainTable;
 }
@@ -196,8 +200,9 @@ export function balanceOf(req: BalanceRequest, onIteration?: (k: number) => void
 export function regionalReportParts(regional?: RegionalRequest, balance?: BalanceRequest): { sections: Section[]; settings: ReportSetting[]; inputs: ReportInputFile[]; findings: Finding[] } {
   const out = { sections: [] as Section[], settings: [] as ReportSetting[], inputs: [] as ReportInputFile[], findings: [] as Finding[] };
   if (regional) {
-    const { e } = estimateOf(regional);
+    const { nat, e } = estimateOf(regional);
     out.sections.push(regionalSection({ result: e.result, national: e.national, regional: e.regional }));
+    if (regional.twoRegion) out.sections.push(twoRegionSection(e.result.sectors, twoRegionSplits(nat, e.choice.basis, regional.method, e.result.delta)));
     out.settings.push(...e.settings.map((x) => ({ ...x, key: `regional.${x.key}`, label: `Regional table: ${x.label}` })));
     if (regional.file) out.inputs.push({ role: 'regional', name: regional.file.name, sha256: regional.file.sha256, ...(regional.file.size !== undefined ? { bytes: regional.file.size } : {}), ...(regional.file.sheet ? { sheet: regional.file.sheet } : {}) });
     out.findings.push(...e.findings);
@@ -238,8 +243,9 @@ export const regionalOps: Record<string, Handler> = {
   /** The regional table of the request, its quotients and both tables' output multipliers. */
   regionalise: (args: RegionalRequest, ctx): RegionalView => {
     ctx.progress(0, 'quotients');
-    const { e } = estimateOf(args);
+    const { nat, e } = estimateOf(args);
     const r = e.result;
+    const twoRegion = args.twoRegion ? twoRegionSplits(nat, e.choice.basis, args.method, r.delta) : undefined;
     const capped = new Map(r.capped.map((c) => [c.code, c.cells]));
     ctx.progress(1);
     return {
@@ -263,6 +269,7 @@ export const regionalOps: Record<string, Handler> = {
       findings: e.findings,
       cautions: [...REGIONAL_CAUTIONS],
       settings: e.settings,
+      ...(twoRegion ? { twoRegion } : {}),
       table: toPlain(r.table),
     };
   },
