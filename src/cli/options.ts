@@ -7,6 +7,7 @@
 import { readFileSync } from 'node:fs';
 import type { Command } from 'commander';
 import { CLOSURE_BASES } from '../../engine/household';
+import { BASIS_KINDS, DEFAULT_DELTA, METHOD_NAMES, REGIONAL_METHODS } from '../../engine/regional/index';
 import type { OutputFormat } from './files';
 
 const pkg = JSON.parse(readFileSync(new URL('../../package.json', import.meta.url), 'utf8')) as { name: string; version: string };
@@ -67,4 +68,17 @@ export function modelOptions(cmd: Command): Command {
     .option('--satellites <codes>', 'satellite rows to count as measures, comma-separated (default: all)')
     .option('--value-added-rows <codes>', 'value-added rows summed as value added, comma-separated (default: all)')
     .option('--measure <codes>', 'only these measures, comma-separated codes such as output,value-added,JOBS');
+}
+
+/** The options of a regionalisation, shared by `regionalise` and `report` (checked by regional-input.ts's regionalChoices). */
+export function regionalOptions(cmd: Command): Command {
+  return cmd
+    .option('--regional-sheet <name>', 'the sheet of a regional workbook')
+    .option('-m, --method <method>', `${REGIONAL_METHODS.join('|')}: ${REGIONAL_METHODS.map((m) => METHOD_NAMES[m]).join('; ')} (default flq)`)
+    .option('--delta <number>', `δ of FLQ and AFLQ, from 0 to 1 (default ${DEFAULT_DELTA}, a common default)`)
+    .option('--basis <kind>', `what the regional values count: ${BASIS_KINDS.join('|')} (default employment)`)
+    .option('--regional-column <name>', "the column of the region's values (a header or a number from 1; default: the one named for a region, else the first)")
+    .option('--national-column <name>', "the column of the nation's values (default: the one named for the nation, else from the table: jobs satellite, output, or compensation row)")
+    .option('--region <name>', 'the name of the region, shown in the report')
+    .option('--concordance <file>', "a concordance from the regional file's codes to the table's (values summed per table code)");
 }

@@ -165,3 +165,66 @@ describe('ripplewise balance', () => {
     expect(rs).toEqual([44, 66, 72, -2].map((v) => expect.closeTo(v, 7)));
   });
 });
+
+describe('ripplewise report with a regional table', () => {
+  it('carries the regional section: the same quotients and multipliers as regionalise, the regional file hashed, the cautions', async () => {
+    const r = await run(['report', national, '--no-household', '--regional', regional, '--method', 'flq', '--region', 'County', '--json']);
+    expect(r.stderr).toBe('');
+    expect(r.code).toBe(0);
+    const rep = JSON.parse(r.stdout);
+    const sec = rep.sections.find((s: { id: string }) => s.id === 'regional');
+    expect(sec).toBeDefined();
+    expect(sec.title).toMatch(/County/);
+    const g = await run(['regionalise', national, '--regional', regional, '--method', 'flq', '--json']);
+    const j = JSON.parse(g.stdout);
+    const tbl = sec.tables.find((t: { id: string }) => t.id === 'regional-quotients');
+    const col = (key: string) => tbl.columns.findIndex((c: { key: string }) => c.key === key);
+    const value = (cell: unknown) => (typeof cell === 'object' && cell !== null && 'value' in cell ? (cell as { value: number }).value : cell);
+    tbl.rows.forEach((row: unknown[], i: number) => {
+      expect(value(row[col('multR')])).toBeCloseTo(j.sectors[i].outputMultiplier.regional, 12);
+      expect(value(row[col('multN')])).toBeCloseTo(j.sectors[i].outputMultiplier.national, 12);
+      expect(value(row[col('slq')])).toBeCloseTo(j.sectors[i].slq, 12);
+    });
+    const sha = createHash('sha256').update(readFileSync(regional)).digest('hex');
+    expect(rep.inputs.some((f: { role: string; sha256: string }) => f.role === 'regional' && f.sha256 === sha)).toBe(true);
+    expect(rep.settings.some((x: { key: string; value: unknown }) => x.key === 'regional.method' && /Flegg/.test(String(x.value)))).toBe(true);
+    expect(JSON.stringify(rep.cautions)).toMatch(/overstate regional multipliers/);
+    // the other sections are still there
+    expect(rep.sections.some((s: { id: string; kind?: string }) => s.id === 'multipliers' || s.kind === 'multipliers')).toBe(true);
+  });
+
+  it('refuses regional options without --regional (exit 2)', async () => {
+    const r = await run(['report', national, '--method', 'slq', '--json']);
+    expect(r.code).toBe(2);
+    expect(r.stderr).toMatch(/need --regional FILE/);
+  });
+});
+
+describe('ripplewise balance --write table', () => {
+  it('writes the whole table with the balanced part in place: rows and columns add up to the new totals', async () => {
+    const t2 = makeTable({ sectors: { codes: ['A', 'B'] }, Z: [[10, 20], [30, 5]], finalDemand: { codes: ['HH', 'INV'], values: [[15, -5], [20, 5]] }, valueAdded: { codes: ['VA', 'TAX'], values: [[25, 40], [-5, 5]] }, x: [40, 60] });
+    const neg = join(dir, 'neg-write.csv');
+    writeFileSync(neg, writeTableCsv(t2));
+    const rows = join(dir, 'rows-wt.csv');
+    const cols = join(dir, 'cols-wt.csv');
+    writeFileSync(rows, 'code,total\nA,44\nB,66\nVA,72\nTAX,-2\n');
+    writeFileSync(cols, 'code,total\nA,44\nB,66\nHH,38\nINV,32\n');
+    const out = join(dir, 'balanced-table.csv');
+    const r = await run(['balance', neg, '--part', 'whole', '--write', 'table', '--row-totals', rows, '--column-totals', cols, '--out', out]);
+    expect(r.stderr).toMatch(/^wrote .*balanced-table\.csv/);
+    expect(r.code).toBe(0);
+    const back = (await readTableFile(readFileSync(out), { file: out })).table;
+    expect(Array.from(back.x)).toEqual([44, 66].map((v) => expect.closeTo(v, 7)));
+    // column j: Σ z + Σ v = x_j (the table's own accounting identity, common practice)
+    for (let j = 0; j < 2; j++) {
+      const colSum = back.Z.data[j]! + back.Z.data[2 + j]! + back.V.data[j]! + back.V.data[2 + j]!;
+      expect(colSum).toBeCloseTo(back.x[j]!, 7);
+    }
+    // rows of primary inputs meet their targets
+    expect(back.V.data[0]! + back.V.data[1]!).toBeCloseTo(72, 7);
+    expect(back.V.data[2]! + back.V.data[3]!).toBeCloseTo(-2, 7);
+    const bad = await run(['balance', neg, '--write', 'cells', '--row-totals', rows, '--column-totals', cols]);
+    expect(bad.code).toBe(2);
+    expect(bad.stderr).toMatch(/--write must be matrix or table/);
+  });
+});

@@ -25,7 +25,7 @@ import { setNumberLocale } from './numbers';
 import { record, resetHistory, setHistoryHost } from './history.svelte';
 import type { Snapshot, TableEdit } from './history.svelte';
 
-export type Step = 'open' | 'projects' | 'layout' | 'checks' | 'edit' | 'coefficients' | 'inverse' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'compare' | 'report';
+export type Step = 'open' | 'projects' | 'layout' | 'checks' | 'edit' | 'coefficients' | 'inverse' | 'multipliers' | 'linkages' | 'scenarios' | 'results' | 'sensitivity' | 'compare' | 'report' | 'regional' | 'balance';
 
 export const STEPS: { id: Step; label: string }[] = [
   { id: 'open', label: 'Open' },
@@ -42,6 +42,8 @@ export const STEPS: { id: Step; label: string }[] = [
   { id: 'sensitivity', label: 'Sensitivity' },
   { id: 'compare', label: 'Compare projects' },
   { id: 'report', label: 'Report' },
+  { id: 'regional', label: 'Regionalise' },
+  { id: 'balance', label: 'Balance' },
 ];
 
 export const TOOL = { name: 'ripplewise', version } as const;

@@ -18,6 +18,8 @@ import ProjectsPanel from './ProjectsPanel.svelte';
 import EditPanel from './EditPanel.svelte';
 import LeontiefPanel from './LeontiefPanel.svelte';
 import ComparePanel from './ComparePanel.svelte';
+import RegionalisePanel from './RegionalisePanel.svelte';
+import BalancePanel from './BalancePanel.svelte';
 
 export const panels: Partial<Record<Step, Component>> = {
   open: OpenPanel,
@@ -34,4 +36,6 @@ export const panels: Partial<Record<Step, Component>> = {
   edit: EditPanel,
   inverse: LeontiefPanel,
   compare: ComparePanel,
+  regional: RegionalisePanel,
+  balance: BalancePanel,
 };

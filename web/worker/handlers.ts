@@ -9,6 +9,7 @@ import { sensitivityOps } from './ops/sensitivity';
 import { fileOps } from './ops/files';
 import { reportOps } from './ops/report';
 import { editOps } from './ops/edit';
+import { regionalOps } from './ops/regional';
 
 const groups: Record<string, Handler>[] = [
   tableOps,
@@ -17,6 +18,7 @@ const groups: Record<string, Handler>[] = [
   fileOps,
   reportOps,
   editOps,
+  regionalOps,
 ];
 
 export const handlers: Record<string, Handler> = {};

@@ -1,9 +1,6 @@
 /** `ripplewise balance TABLE --row-totals FILE --column-totals FILE [--method ras|gras] --out FILE`: a table scaled to new totals. */
-import type { Matrix } from '../../../engine/linalg/matrix';
-import { zeros } from '../../../engine/linalg/matrix';
 import type { BalanceMethod } from '../../../engine/regional/index';
 import { GRAS_ABOUT, RAS_ABOUT, gras, ras } from '../../../engine/regional/index';
-import type { Axis, Table } from '../../../engine/table';
 import { moneyUnit } from '../../../engine/table';
 import { buildReport, checksSection, matrixSection, setting } from '../../report/model';
 import { balanceSection } from '../../report/regional';
@@ -18,9 +15,12 @@ import type { LabelledMatrix } from '../matrix-out';
 import { deliver, planOutputs } from '../output';
 import { progress } from '../progress';
 import { pickColumn, readValues } from '../regional-input';
+import { balancePart, balancedTable } from '../balance-part';
+import type { BalancePartName } from '../balance-part';
 import type { ValueColumn, ValuesRead } from '../regional-input';
 import { CAUTION_LINE, terminalSafe } from '../text';
 import { FORMATS } from '../register/balance';
+import { tableJson, tableWriters } from '../table-out';
 
 export interface Flags extends CommonFlags {
   rowTotals?: string;
@@ -30,29 +30,9 @@ export interface Flags extends CommonFlags {
   method?: string;
   part?: string;
   fix?: string[];
+  write?: string;
   tolerance?: string;
   maxIterations?: string;
-}
-
-/** The part to balance as a matrix with its row and column axes. */
-function partOf(t: Table, part: string): { rows: Axis; cols: Axis; A: Matrix } {
-  const n = t.sectors.codes.length;
-  if (part === 'intermediate') return { rows: t.sectors, cols: t.sectors, A: { rows: n, cols: n, data: Float64Array.from(t.Z.data) } };
-  const k = t.finalDemand.codes.length;
-  const m = t.valueAdded.codes.length;
-  const imp = t.imports ? 1 : 0;
-  const R = n + m + imp;
-  const C = n + k;
-  const A = zeros(R, C);
-  for (let i = 0; i < n; i++) {
-    for (let j = 0; j < n; j++) A.data[i * C + j] = t.Z.data[i * n + j]!;
-    for (let q = 0; q < k; q++) A.data[i * C + n + q] = t.F.data[i * k + q]!;
-  }
-  for (let a = 0; a < m; a++) for (let j = 0; j < n; j++) A.data[(n + a) * C + j] = t.V.data[a * n + j]!;
-  if (t.imports) for (let j = 0; j < n; j++) A.data[(n + m) * C + j] = t.imports[j]!;
-  const rows: Axis = { codes: [...t.sectors.codes, ...t.valueAdded.codes, ...(imp ? ['IMPORTS'] : [])], labels: [...t.sectors.labels, ...t.valueAdded.labels, ...(imp ? ['Imports'] : [])] };
-  const cols: Axis = { codes: [...t.sectors.codes, ...t.finalDemand.codes], labels: [...t.sectors.labels, ...t.finalDemand.labels] };
-  return { rows, cols, A };
 }
 
 function oneColumn(read: ValuesRead, given: string | undefined, option: string): ValueColumn {
@@ -61,7 +41,9 @@ function oneColumn(read: ValuesRead, given: string | undefined, option: string):
 }
 
 export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
-  const part = (f.part ?? 'intermediate').toLowerCase();
+  const part = (f.part ?? 'intermediate').toLowerCase() as BalancePartName;
+  const write = (f.write ?? 'matrix').toLowerCase();
+  if (write !== 'matrix' && write !== 'table') throw new UsageError(`--write must be matrix or table; got '${f.write}'`, 'bad-write');
   if (part !== 'intermediate' && part !== 'whole') throw new UsageError(`--part must be intermediate or whole; got '${f.part}'`, 'bad-part');
   const given = f.method?.toLowerCase();
   if (given !== undefined && given !== 'ras' && given !== 'gras') throw new UsageError(`--method must be ras or gras; got '${f.method}'`, 'bad-method');
@@ -71,7 +53,7 @@ export async function action(ctx: CliContext, name: string, f: Flags): Promise<n
   const plan = planOutputs(f, FORMATS);
   const loaded = await checkedTable(ctx, name, f, { allowErrors: true });
   const t = loaded.table;
-  const { rows, cols, A } = partOf(t, part);
+  const { rows, cols, A } = balancePart(t, part);
   const rowRead = await readValues(ctx, f.rowTotals, 'row totals', rows);
   const colRead = await readValues(ctx, f.columnTotals, 'column totals', cols);
   const u = oneColumn(rowRead, f.rowTotalsColumn, '--row-totals-column').values;
@@ -107,11 +89,13 @@ export async function action(ctx: CliContext, name: string, f: Flags): Promise<n
     return deliver(ctx, { json: () => ({ ...summary(), findings: found }), text: () => '', writers: {}, exitCode: EXIT_CHECKS }, [], { ...(f.json ? { json: true } : {}) });
   }
   const unit = moneyUnit(t.meta);
+  const whole = write === 'table' ? balancedTable(t, part, result.X, method) : undefined;
   const lm: LabelledMatrix = { title: `${part === 'whole' ? 'table' : 'intermediate flows'} balanced by ${method.toUpperCase()}`, about: method === 'gras' ? GRAS_ABOUT : RAS_ABOUT, rows, cols, matrix: result.X, unit, corner: part === 'whole' ? 'row/column' : 'sector' };
   const settings = [
     setting('method', 'Method', method.toUpperCase(), given ? 'given' : 'guessed', given ? undefined : hasNegative ? 'the part has negative entries' : 'the part has no negative entries'),
     setting('part', 'Part balanced', part, f.part ? 'given' : 'default'),
     setting('tolerance', 'Relative tolerance', tolerance, f.tolerance ? 'given' : 'default'),
+    setting('write', 'Written', write === 'table' ? 'the whole table with the balanced part in place' : 'the balanced part', f.write ? 'given' : 'default'),
     setting('fixed', 'Cells held fixed', (f.fix ?? []).join(', ') || 'none', f.fix?.length ? 'given' : 'default'),
   ];
   const report = () =>
@@ -128,12 +112,12 @@ export async function action(ctx: CliContext, name: string, f: Flags): Promise<n
   return deliver(
     ctx,
     {
-      json: () => ({ about: lm.about, ...summary(), matrix: matrixJson(lm), findings: found }),
+      json: () => ({ about: lm.about, ...summary(), matrix: matrixJson(lm), ...(whole ? { table: tableJson(whole) } : {}), findings: found }),
       text: (colour) => {
         const s = styles(colour);
-        return [tableLine(loaded), `${method.toUpperCase()} on the ${part} part (${rows.codes.length} × ${cols.codes.length}): converged in ${result.iterations} iterations; largest remaining relative deviation ${result.maxDeviation.toExponential(2)} (${result.worst.axis} '${result.worst.code}')`, s.dim('Give --out FILE to write the balanced matrix (CSV, TSV, XLSX, JSON) or a report (HTML).'), s.dim(CAUTION_LINE), ''].join('\n');
+        return [tableLine(loaded), `${method.toUpperCase()} on the ${part} part (${rows.codes.length} × ${cols.codes.length}): converged in ${result.iterations} iterations; largest remaining relative deviation ${result.maxDeviation.toExponential(2)} (${result.worst.axis} '${result.worst.code}')`, s.dim(whole ? 'Give --out FILE to write the table with the balanced part in place (CSV, TSV, XLSX, JSON) or a report (HTML).' : 'Give --out FILE to write the balanced matrix (CSV, TSV, XLSX, JSON) or a report (HTML); --write table writes the whole table.'), s.dim(CAUTION_LINE), ''].join('\n');
       },
-      writers: matrixWriters(lm, report, { method: method.toUpperCase(), iterations: String(result.iterations), 'largest relative deviation': result.maxDeviation.toExponential(3) }),
+      writers: whole ? tableWriters(whole, report) : matrixWriters(lm, report, { method: method.toUpperCase(), iterations: String(result.iterations), 'largest relative deviation': result.maxDeviation.toExponential(3) }),
     },
     plan,
     f,

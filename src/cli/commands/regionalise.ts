@@ -1,85 +1,48 @@
 /** `ripplewise regionalise NATIONAL --regional FILE --method slq|cilq|flq|aflq|sdp [--delta 0.3] --out FILE`: a region's table from the nation's. */
-import { checks } from '../../../engine/checks';
-import { LeontiefModel } from '../../../engine/leontief';
-import type { BasisKind, RegionalMethod } from '../../../engine/regional/index';
-import { BASIS_KINDS, METHOD_NAMES, REGIONAL_CAUTIONS, REGIONAL_METHODS, regionalise, TwoRegionModel } from '../../../engine/regional/index';
-import { buildReport, checksSection, setting } from '../../report/model';
+import { METHOD_NAMES, REGIONAL_CAUTIONS } from '../../../engine/regional/index';
+import type { TwoRegionSplit } from '../../../engine/regional/index';
+import { buildReport, checksSection } from '../../report/model';
 import { regionalSection, twoRegionSection } from '../../report/regional';
 import type { CommonFlags } from '../common';
-import { checkedTable, numberOption, reportBase, reportInputs, tableLine } from '../common';
+import { checkedTable, reportBase, reportInputs, tableLine } from '../common';
 import type { CliContext } from '../context';
 import { styles } from '../context';
-import { UsageError } from '../errors';
-import { reportInput } from '../files';
 import { deliver, planOutputs } from '../output';
 import { progress } from '../progress';
-import { chooseBasis, readValues } from '../regional-input';
+import { regionalChoices, regionalRun } from '../regional-input';
+import { twoRegionSplits } from '../regional-values';
+import type { RegionalFlags } from '../regional-input';
 import { tableJson, tableWriters } from '../table-out';
 import { CAUTION_LINE, fixed, textTable } from '../text';
 import { FORMATS } from '../register/regionalise';
 
-export interface Flags extends CommonFlags {
-  regional?: string;
-  regionalSheet?: string;
-  method?: string;
-  delta?: string;
-  basis?: string;
-  regionalColumn?: string;
-  nationalColumn?: string;
-  region?: string;
-  concordance?: string;
+export interface Flags extends CommonFlags, RegionalFlags {
   twoRegion?: boolean;
 }
 
 export async function action(ctx: CliContext, name: string, f: Flags): Promise<number> {
-  const method = (f.method ?? 'flq').toLowerCase() as RegionalMethod;
-  if (!REGIONAL_METHODS.includes(method)) throw new UsageError(`--method must be one of ${REGIONAL_METHODS.join(', ')}; got '${f.method}'`, 'bad-method');
-  const kind = (f.basis ?? 'employment').toLowerCase() as BasisKind;
-  if (!BASIS_KINDS.includes(kind)) throw new UsageError(`--basis must be one of ${BASIS_KINDS.join(', ')}; got '${f.basis}'`, 'bad-basis');
-  const delta = numberOption(f.delta, '--delta', { min: 0, max: 1 });
-  if (delta !== undefined && method !== 'flq' && method !== 'aflq') throw new UsageError(`--delta applies to FLQ and AFLQ, not ${method.toUpperCase()}`, 'delta-not-used');
-  if (!f.regional) throw new UsageError('regionalise needs --regional FILE', 'missing-option');
+  const { method } = regionalChoices(f);
   const plan = planOutputs(f, FORMATS);
   const bar = await progress(ctx, 'regionalise', f.twoRegion ? 5 : 4, { json: !!f.json });
   try {
     bar.step('national table');
     const loaded = await checkedTable(ctx, name, f);
     const nat = loaded.table;
-    bar.step('regional file');
-    const read = await readValues(ctx, f.regional, 'regional file', nat.sectors, { ...(f.regionalSheet ? { sheet: f.regionalSheet } : {}), ...(f.concordance ? { concordance: f.concordance } : {}) });
-    const choice = chooseBasis(nat, read, kind, { ...(f.regionalColumn ? { regionalColumn: f.regionalColumn } : {}), ...(f.nationalColumn ? { nationalColumn: f.nationalColumn } : {}), ...(f.region ? { name: f.region } : {}) });
-    bar.step('quotients');
-    const r = regionalise(nat, choice.basis, { method, ...(delta !== undefined ? { delta } : {}), source: { file: reportInput(read.file, 'regional').name, sha256: read.file.sha256 } });
-    const found = [...read.findings, ...choice.findings, ...r.findings, ...checks(r.table)];
+    bar.step('regional file and quotients');
+    const reg = await regionalRun(ctx, nat, f);
+    const { choice, result: r, findings: found, national: multN, regional: multR, settings, delta, kind } = reg;
     bar.step('multipliers');
-    const multN = new LeontiefModel(r.national).outputMultipliers();
-    const multR = new LeontiefModel(r.A).outputMultipliers();
-    let splits: ReturnType<TwoRegionModel['split']>['totals'][] | undefined;
+    let splits: TwoRegionSplit['totals'][] | undefined;
     if (f.twoRegion) {
       bar.step('two regions');
-      const two = new TwoRegionModel(nat, choice.basis, { method, ...(delta !== undefined ? { delta } : {}) });
-      const n = nat.sectors.codes.length;
-      splits = nat.sectors.codes.map((_, j) => {
-        const d = new Float64Array(n);
-        d[j] = 1;
-        return two.split(d).totals;
-      });
+      splits = twoRegionSplits(nat, choice.basis, method, delta);
     }
-    const settings = [
-      setting('method', 'Regionalisation method', METHOD_NAMES[method], f.method ? 'given' : 'default'),
-      ...(r.delta !== undefined ? [setting('delta', 'δ (FLQ, AFLQ)', r.delta, delta !== undefined ? 'given' : 'default', 'a common default, not measured for this region')] : []),
-      ...(r.lambda !== undefined ? [setting('lambda', 'λ = [log2(1 + regional/national)]^δ', r.lambda, 'default', 'computed')] : []),
-      setting('basis', 'Basis', `${kind} (${choice.basis.unit})`, f.basis ? 'given' : 'default'),
-      setting('regionValues', "The region's values", choice.regionFrom, f.regionalColumn ? 'given' : 'guessed'),
-      setting('nationValues', "The nation's values", choice.nationFrom, f.nationalColumn ? 'given' : 'guessed'),
-      setting('share', "The region's share of the nation", r.share, 'default', 'computed'),
-    ];
     const report = () =>
       buildReport({
         ...reportBase(ctx, f),
         title: r.table.meta.title ?? 'Regional table',
         table: r.table,
-        inputs: reportInputs(loaded, [reportInput(read.file, 'regional', read.sheet), ...(read.concordance ? [reportInput(read.concordance, 'concordance')] : [])]),
+        inputs: reportInputs(loaded, reg.inputs),
         settings,
         assumptions: [...(r.table.meta.notes ?? []).slice(-3)],
         findings: found,

@@ -22,8 +22,11 @@ import { progress } from '../progress';
 import type { LoadedScenarios } from '../scenario-input';
 import { loadScenarios } from '../scenario-input';
 import { FORMATS } from '../register/report';
+import { regionalChoices, regionalRun } from '../regional-input';
+import type { RegionalFlags } from '../regional-input';
+import { regionalSection } from '../../report/regional';
 
-export interface Flags extends CommonFlags, ModelFlags {
+export interface Flags extends CommonFlags, ModelFlags, RegionalFlags {
   scenario?: string;
   name?: string[];
   title?: string;
@@ -38,6 +41,9 @@ export async function action(ctx: CliContext, name: string, f: Flags): Promise<n
   if (!plan.length && !f.json) throw new UsageError('report writes files: give --out FILE.html (or .xlsx, .json, .csv), or --format', 'no-output', 'For a quick look in the terminal, use multipliers, impact or linkages');
   const top = numberOption(f.tornadoTop, '--tornado-top', { min: 1, max: 100, integer: true }) ?? 10;
   const percent = numberOption(f.tornadoPercent, '--tornado-percent', { min: 0.001, max: 100 }) ?? 10;
+  const regionalGiven = f.method !== undefined || f.delta !== undefined || f.basis !== undefined || f.regionalColumn !== undefined || f.nationalColumn !== undefined || f.region !== undefined || f.concordance !== undefined || f.regionalSheet !== undefined;
+  if (regionalGiven && !f.regional) throw new UsageError('the regional options (--method, --delta, --basis, ...) need --regional FILE', 'missing-option');
+  if (f.regional) regionalChoices(f);
   const bar = await progress(ctx, 'report', 6, f);
   try {
     bar.step('reading the table');
@@ -63,6 +69,11 @@ export async function action(ctx: CliContext, name: string, f: Flags): Promise<n
       sc.resolved.forEach((r, k) => sections.push(scenarioSection(r, results[k]!, { index: k + 1 })));
     }
     sections.push(multipliersSection(mult), linkagesSection(link));
+    const reg = f.regional ? await regionalRun(ctx, t, f) : undefined;
+    if (reg) {
+      sections.push(regionalSection({ result: reg.result, national: reg.national, regional: reg.regional }));
+      settings.push(...reg.settings.map((x) => ({ ...x, key: `regional.${x.key}`, label: `Regional table: ${x.label}` })));
+    }
     if (f.tornado !== false) {
       bar.step('sensitivity');
       let target: ResultTarget;
@@ -100,10 +111,10 @@ export async function action(ctx: CliContext, name: string, f: Flags): Promise<n
         title,
         subtitle: t.meta.title ?? loaded.file.name,
         table: t,
-        inputs: reportInputs(loaded, sc ? [reportInput(sc.file, 'scenarios')] : []),
+        inputs: reportInputs(loaded, [...(sc ? [reportInput(sc.file, 'scenarios')] : []), ...(reg?.inputs ?? [])]),
         settings,
         assumptions: prep.assumptions,
-        findings: [...loaded.checks, ...(prep.models.closure?.findings ?? []), ...link.findings, ...results.flatMap((r) => r.findings)],
+        findings: [...loaded.checks, ...(prep.models.closure?.findings ?? []), ...link.findings, ...results.flatMap((r) => r.findings), ...(reg?.findings ?? [])],
         sections,
       }));
     return deliver(

@@ -21,7 +21,8 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
     .option('--part <part>', 'intermediate: the flows between sectors; whole: sectors and primary-input rows by sectors and final-demand columns', 'intermediate')
     .option('--fix <row:column>', 'hold a cell at its value, by row and column code (repeatable)', collect)
     .option('--tolerance <number>', 'stop when every row and column sum is within this relative deviation of its target (default 1e-10)')
-    .option('--max-iterations <n>', 'at most this many iterations (default 10000)');
+    .option('--max-iterations <n>', 'at most this many iterations (default 10000)')
+    .option('--write <what>', 'matrix: the balanced part only; table: the whole table with the balanced part in place (whole part: total output from the new row sums; intermediate part: final demand, value added and total output as they were, so the checks say where sums no longer add up)', 'matrix');
   tableOptions(cmd);
   outputOptions(cmd, FORMATS, { locale: true });
   examples(cmd, [

@@ -1,8 +1,8 @@
 /** `ripplewise regionalise`: its options and help, declared without loading the command (../commands/regionalise.ts runs it). */
 import type { Command } from 'commander';
-import { BASIS_KINDS, DEFAULT_DELTA, METHOD_NAMES, REGIONAL_CAUTIONS, REGIONAL_METHODS, REGIONALISE_ABOUT } from '../../../engine/regional/index';
+import { REGIONAL_CAUTIONS, REGIONALISE_ABOUT } from '../../../engine/regional/index';
 import type { Action } from '../main';
-import { examples, outputOptions, tableOptions } from '../options';
+import { examples, outputOptions, regionalOptions, tableOptions } from '../options';
 import type { Flags } from '../commands/regionalise';
 
 export const FORMATS = ['csv', 'tsv', 'xlsx', 'json', 'html'] as const;
@@ -15,15 +15,8 @@ export function register(p: Command, run: (a: Action, json: boolean) => void): v
     .argument('<national>', "the national table ('-' for standard input)")
     .description(`${REGIONALISE_ABOUT} ${REGIONAL_CAUTIONS[0]}`)
     .requiredOption('-r, --regional <file>', "the regional file: a code column, optionally labels, then the region's values by sector (and the nation's, if the table has none), under a header such as 'Region (jobs)'")
-    .option('--regional-sheet <name>', 'the sheet of a regional workbook')
-    .option('-m, --method <method>', `${REGIONAL_METHODS.join('|')}: ${REGIONAL_METHODS.map((m) => METHOD_NAMES[m]).join('; ')}`, 'flq')
-    .option('--delta <number>', `δ of FLQ and AFLQ, from 0 to 1 (default ${DEFAULT_DELTA}, a common default)`)
-    .option('--basis <kind>', `what the regional values count: ${BASIS_KINDS.join('|')}`, 'employment')
-    .option('--regional-column <name>', "the column of the region's values (a header or a number from 1; default: the one named for a region, else the first)")
-    .option('--national-column <name>', "the column of the nation's values (default: the one named for the nation, else from the table: jobs satellite, output, or compensation row)")
-    .option('--region <name>', 'the name of the region, shown in the report')
-    .option('--concordance <file>', "a concordance from the regional file's codes to the table's (values summed per table code)")
     .option('--two-region', 'also build the two-region model (the region and the rest of the nation) and split each sector’s output multiplier into intraregional, feedback and spillover');
+  regionalOptions(cmd);
   tableOptions(cmd);
   outputOptions(cmd, FORMATS, { locale: true });
   examples(cmd, [

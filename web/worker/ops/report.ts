@@ -21,6 +21,8 @@ import type { Handler } from '../context';
 import type { HouseholdChoice } from './models';
 import { analysisModels } from './models';
 import { current, openModel } from './session';
+import { regionalReportParts } from './regional';
+import type { BalanceRequest, RegionalRequest } from './regional';
 
 export const TOOL = { name: 'ripplewise', version } as const;
 
@@ -42,6 +44,9 @@ export interface ReportRequest {
   rounds?: boolean;
   /** The edits made to the table in the workbench since it was read, one line each. */
   edits?: string[];
+  /** The Regionalise step's last run and the Balance tool's, when used (their sections are added). */
+  regional?: RegionalRequest;
+  balance?: BalanceRequest;
 }
 
 /** The report's formats, and the tidy CSV of the impacts (src/report/tidy-csv.ts). */
@@ -135,6 +140,9 @@ export async function buildWorkbenchReport(req: ReportRequest, keep: { impacts?:
     sections.push(textSection('edits', 'Edits to the table', 'Cells and details changed in the workbench after the table was read from its source, in order.', req.edits.map((e, k) => `${k + 1}. ${e}`)));
     settings.push(setting('edits', 'Edits to the table after reading', req.edits.length, 'given', 'Listed in the section Edits to the table'));
   }
+  const extra = regionalReportParts(req.regional, req.balance);
+  sections.push(...extra.sections);
+  settings.push(...extra.settings);
   const checks = [...(req.readFindings ?? []), ...s.findings];
   const typeII = h.used ? 'closed' : h.choice === 'none' ? 'off' : 'not-found';
   sections.push(checksSection(checks, { condition: openModel().condition() }));
@@ -146,6 +154,7 @@ export async function buildWorkbenchReport(req: ReportRequest, keep: { impacts?:
     if (x.sheet !== undefined) f.sheet = x.sheet;
     return f;
   });
+  inputs.push(...extra.inputs);
   if (list.length) {
     const bytes = new TextEncoder().encode(writeScenarios(list));
     inputs.push({ role: 'scenarios', name: 'scenarios (built in the workbench)', sha256: await digestHex(bytes), bytes: bytes.length });
@@ -161,7 +170,7 @@ export async function buildWorkbenchReport(req: ReportRequest, keep: { impacts?:
     inputs,
     settings,
     assumptions: [...modelAssumptions(t, models.closure, { typeII }), ...conventionLines(conventions(models, a.measures, { typeII }), { closure: false, rounds })],
-    findings: [...checks, ...(models.closure?.findings ?? []), ...link.findings, ...results.flatMap((r) => r.findings)],
+    findings: [...checks, ...(models.closure?.findings ?? []), ...link.findings, ...results.flatMap((r) => r.findings), ...extra.findings],
     sections,
   });
 }
