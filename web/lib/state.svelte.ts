@@ -33,6 +33,8 @@ export const STEPS: { id: Step; label: string }[] = [
   { id: 'layout', label: 'Layout' },
   { id: 'checks', label: 'Checks' },
   { id: 'edit', label: 'Edit table' },
+  { id: 'regional', label: 'Regionalise' },
+  { id: 'balance', label: 'Balance' },
   { id: 'coefficients', label: 'Coefficients' },
   { id: 'inverse', label: 'Leontief inverse' },
   { id: 'multipliers', label: 'Multipliers' },
@@ -42,8 +44,6 @@ export const STEPS: { id: Step; label: string }[] = [
   { id: 'sensitivity', label: 'Sensitivity' },
   { id: 'compare', label: 'Compare projects' },
   { id: 'report', label: 'Report' },
-  { id: 'regional', label: 'Regionalise' },
-  { id: 'balance', label: 'Balance' },
 ];
 
 export const TOOL = { name: 'ripplewise', version } as const;
