@@ -1387,10 +1387,12 @@ function setClasses(block: Block, c: Classified, fd: number[], va: number[], fdA
     if (f) c.colWhy[j] = `${c.colWhy[j]}; ${f.why}`;
     return f?.cls;
   });
-  // The demand classes are shown in the mapping only for now: nothing in the engine reads them yet,
-  // and the table writers do not write them (a written table must read back identical).
-  void dc;
-  void fdAxis;
+  // The demand classes are set on the table only where they settle what the words alone would not:
+  // a column whose label says households but whose class is another ('Non-resident households' is
+  // exports, 'NPISHs serving households'), so that the one household column is still found for
+  // Type II (engine onlyClassed). Otherwise they stay in the mapping's why: the table writers do not
+  // write them, and a written table must read back identical.
+  if (dc.some((x, k) => x !== undefined && x !== 'households' && HOUSEHOLD_WORD.test(block.cols[fd[k]!]!.label))) fdAxis.classes = dc;
   const vc = va.map((i) => {
     const e = block.rows[i]!;
     const f = inputClassOf(e.code, e.label);
@@ -1400,6 +1402,9 @@ function setClasses(block: Block, c: Classified, fd: number[], va: number[], fdA
   // Only when some row is then not value added: otherwise every row counts, as without classes.
   if (vc.some((x) => x !== undefined && !VALUE_ADDED_CLASSES.includes(x))) vaAxis.classes = vc;
 }
+
+/** A label that names households (the households class rule's word). */
+const HOUSEHOLD_WORD = /\bhouseholds?\b/i;
 
 const BY_POSITION_ROW = 'its code names no column, after the sector rows';
 const BY_POSITION_COL = 'its code names no row, after the sector columns';
