@@ -79,6 +79,8 @@ export interface LayoutMapping {
    * label (reported as true when the reader did so); false keeps each text whole.
    */
   splitCodes?: boolean;
+  /** Rule affix-codes: false keeps row and column codes as written, even when they differ only by an affix. */
+  affixCodes?: boolean;
   /** Long files: the 1-based fields of the row code, the column code and the value, and the header line if any. */
   rowCodeField?: number;
   columnCodeField?: number;
@@ -208,6 +210,7 @@ export function parseMapping(input: string | unknown, file = 'mapping'): Mapping
     throw new InputError('bad-mapping', `file ${file}: select must be an object of field names (or numbers) and the texts to keep, such as { "TIME_PERIOD": "2020" }`, { file });
   }
   if (m.splitCodes !== undefined && typeof m.splitCodes !== 'boolean') throw new InputError('bad-mapping', `file ${file}: splitCodes must be true or false`, { file });
+  if (m.affixCodes !== undefined && typeof m.affixCodes !== 'boolean') throw new InputError('bad-mapping', `file ${file}: affixCodes must be true or false`, { file });
   if (m.blanks !== undefined && m.blanks !== 'error' && m.blanks !== 'zero') throw new InputError('bad-mapping', `file ${file}: blanks must be 'error' or 'zero'`, { file });
   if (m.zeroTexts !== undefined && !(Array.isArray(m.zeroTexts) && m.zeroTexts.every((x) => typeof x === 'string'))) {
     throw new InputError('bad-mapping', `file ${file}: zeroTexts must be a list of texts`, { file });

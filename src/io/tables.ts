@@ -9,7 +9,8 @@ import type { Axis, Table } from '../../engine/table';
 import { type AssembleOptions, assembleMatrix, assembleTable, classify, mappingOf } from './assemble';
 import { type Block, DenseBlock, type Entry } from './block';
 import { Grid } from './grid';
-import { detectStructure, type WideStructure } from './layout';
+import { cutCodeAndLabel, detectStructure, type WideStructure } from './layout';
+import { matchAffixes } from './rules/affix-codes';
 import type { LongTable } from './long';
 import type { LayoutMapping, MappingInput, TableKind } from './mapping';
 import { compilePatterns, resolvePatterns } from './patterns';
@@ -130,6 +131,21 @@ function orient(sb: SourceBlock, source: TableSource, options: ReadTableOptions)
   return { ...sb, block, extra, findings: [...sb.findings, note] };
 }
 
+/**
+ * Rule affix-codes (rules/affix-codes.ts) on the block of a symmetric table, unless the mapping
+ * turns it off (`affixCodes: false`): rows `DOM_01` and columns `D01` are one sector '01'; an
+ * `IMP_` block of the same products is imports. Supply and use tables keep their codes.
+ */
+function affixes(sb: SourceBlock, options: ReadTableOptions): SourceBlock {
+  if (options.mapping?.affixCodes === false) return sb;
+  let b = sb.block;
+  if (b instanceof DenseBlock) b = new DenseBlock(b.file, b.rows.map((e) => ({ ...e })), b.cols.map((e) => ({ ...e })), b.data, b.sheet);
+  const r = matchAffixes(b, cutCodeAndLabel);
+  if (!r) return sb;
+  const extra = r.split && b.shape === 'wide' ? { ...sb.extra, splitCodes: true } : sb.extra;
+  return { ...sb, block: b, extra, findings: [...sb.findings, r.finding] };
+}
+
 function optionsOf(kind: TableKind, options: ReadTableOptions): AssembleOptions {
   const o: AssembleOptions = { kind };
   if (options.mapping) o.mapping = options.mapping;
@@ -156,7 +172,7 @@ function kindOf(options: ReadTableOptions): 'flows' | 'coefficients' {
  */
 export function readTable(source: TableSource, options: ReadTableOptions = {}): TableRead {
   const kind = kindOf(options);
-  const sb = orient(sourceBlock(source, options.mapping), source, options);
+  const sb = affixes(orient(sourceBlock(source, options.mapping), source, options), options);
   const r = assembleTable(sb.block, optionsOf(kind, options), sb.meta, sb.extra);
   if (options.kind === undefined && options.mapping?.kind === undefined) {
     const why = looksLikeCoefficients(r);
@@ -230,7 +246,7 @@ export function readMatrix(source: TableSource, options: Omit<ReadTableOptions, 
  */
 export function detectLayout(source: TableSource, options: ReadTableOptions & { kind?: TableKind } = {}): { mapping: LayoutMapping; findings: Finding[] } {
   const kind = options.kind ?? options.mapping?.kind ?? 'flows';
-  const sb = kind === 'flows' || kind === 'coefficients' ? orient(sourceBlock(source, options.mapping), source, options) : sourceBlock(source, options.mapping);
+  const sb = kind === 'flows' || kind === 'coefficients' ? affixes(orient(sourceBlock(source, options.mapping), source, options), options) : sourceBlock(source, options.mapping);
   const o = optionsOf(kind, options);
   const c = classify(sb.block, o);
   const mapping = mappingOf(sb.block, c, kind, o, { ...sb.extra, meta: { ...sb.meta, ...(options.mapping?.meta ?? {}) } });
