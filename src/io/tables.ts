@@ -146,6 +146,37 @@ function affixes(sb: SourceBlock, options: ReadTableOptions): SourceBlock {
   return { ...sb, block: b, extra, findings: [...sb.findings, r.finding] };
 }
 
+/**
+ * The mapping's `rename` ({ from: to }) applied to the block's rows and columns before the rules
+ * read them; each renamed line says so in its why. A code that names no row and no column is a
+ * `mapping-unknown-code` error naming the file and the code.
+ */
+function renamed(sb: SourceBlock, options: ReadTableOptions): SourceBlock {
+  const rename = options.mapping?.rename;
+  if (!rename || !Object.keys(rename).length) return sb;
+  let b = sb.block;
+  if (b instanceof DenseBlock) b = new DenseBlock(b.file, b.rows.map((e) => ({ ...e })), b.cols.map((e) => ({ ...e })), b.data, b.sheet);
+  const known = new Set([...b.rows, ...b.cols].map((e) => e.code));
+  for (const from of Object.keys(rename)) {
+    if (!known.has(from)) {
+      throw new InputError(
+        'mapping-unknown-code',
+        `file ${b.file}${b.sheet ? `, sheet '${b.sheet}'` : ''}: the mapping renames '${from}', but no row or column has that code`,
+        { file: b.file, text: from },
+        `Known codes start ${[...known].slice(0, 8).map((c) => `'${c}'`).join(', ')}; rename a code as the mapping reports it without rename`,
+      );
+    }
+  }
+  for (const e of [...b.rows, ...b.cols]) {
+    const to = rename[e.code];
+    if (to === undefined) continue;
+    e.why = `code '${e.code}' renamed '${to}' by the mapping`;
+    if (e.label === e.code) e.label = to;
+    e.code = to;
+  }
+  return { ...sb, block: b, extra: { ...sb.extra, rename: { ...rename } } };
+}
+
 function optionsOf(kind: TableKind, options: ReadTableOptions): AssembleOptions {
   const o: AssembleOptions = { kind };
   if (options.mapping) o.mapping = options.mapping;
@@ -172,7 +203,7 @@ function kindOf(options: ReadTableOptions): 'flows' | 'coefficients' {
  */
 export function readTable(source: TableSource, options: ReadTableOptions = {}): TableRead {
   const kind = kindOf(options);
-  const sb = affixes(orient(sourceBlock(source, options.mapping), source, options), options);
+  const sb = affixes(renamed(orient(sourceBlock(source, options.mapping), source, options), options), options);
   const r = assembleTable(sb.block, optionsOf(kind, options), sb.meta, sb.extra);
   if (options.kind === undefined && options.mapping?.kind === undefined) {
     const why = looksLikeCoefficients(r);
@@ -246,7 +277,7 @@ export function readMatrix(source: TableSource, options: Omit<ReadTableOptions, 
  */
 export function detectLayout(source: TableSource, options: ReadTableOptions & { kind?: TableKind } = {}): { mapping: LayoutMapping; findings: Finding[] } {
   const kind = options.kind ?? options.mapping?.kind ?? 'flows';
-  const sb = kind === 'flows' || kind === 'coefficients' ? affixes(orient(sourceBlock(source, options.mapping), source, options), options) : sourceBlock(source, options.mapping);
+  const sb = kind === 'flows' || kind === 'coefficients' ? affixes(renamed(orient(sourceBlock(source, options.mapping), source, options), options), options) : sourceBlock(source, options.mapping);
   const o = optionsOf(kind, options);
   const c = classify(sb.block, o);
   const mapping = mappingOf(sb.block, c, kind, o, { ...sb.extra, meta: { ...sb.meta, ...(options.mapping?.meta ?? {}) } });

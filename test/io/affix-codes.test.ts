@@ -10,6 +10,7 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../engine/errors';
 import { gridFromRows } from '../../src/io/grid';
+import { parseMapping } from '../../src/io/mapping';
 import { readTable } from '../../src/io/tables';
 import { AFFIX_CLASSES, affixLayout, affixTable, importsOf, type AffixTable } from '../helpers/affix-layouts';
 
@@ -80,5 +81,50 @@ describe('rule affix-codes: row and column codes that differ by an affix, code a
     const r = readTable(gridFromRows(affixLayout(t, 'colon-cells'), 'same.csv'));
     expect(r.findings.some((f) => f.code === 'affix-codes')).toBe(false);
     expectTable(t, r, 'colon-cells');
+  });
+});
+
+describe('a mapping can rename codes (rename: { from: to })', () => {
+  const t = affixTable(4, 11);
+  const g = () => gridFromRows(affixLayout(t, 'prefix'), 'prefix.csv');
+  const rename: Record<string, string> = {};
+  for (const c of t.codes) {
+    rename[`DOM_${c}`] = c;
+    rename[`D${c}`] = c;
+  }
+  rename.HH = 'P3_S14';
+
+  it('renames rows and columns of any role before the rules read them, and says so in the why', () => {
+    const r = readTable(g(), { mapping: { affixCodes: false, rename } });
+    expect(r.table.sectors.codes).toEqual(t.codes);
+    expect(Array.from(r.table.Z.data)).toEqual(t.Z.flat());
+    expect(Array.from(r.table.x)).toEqual(t.x);
+    expect(r.table.finalDemand.codes).toEqual(['P3_S14', ...t.fdCodes.slice(1)]);
+    expect(r.findings.some((f) => f.code === 'affix-codes')).toBe(false);
+    const row = r.mapping.rows.find((x) => x.code === t.codes[0])!;
+    expect(row.why).toMatch(/code 'DOM_01' renamed '01' by the mapping/);
+    expect(r.mapping.columns.find((x) => x.code === 'P3_S14')!.why).toMatch(/renamed/);
+    expect(r.mapping.rename).toEqual(rename);
+    // The reported mapping read back gives the same table.
+    const again = readTable(g(), { mapping: parseMapping(JSON.stringify(r.mapping)) });
+    expect(Array.from(again.table.Z.data)).toEqual(t.Z.flat());
+    expect(again.table.finalDemand.codes).toEqual(r.table.finalDemand.codes);
+  });
+
+  it('a code that names no row or column is an error naming the file and the code', () => {
+    let err: unknown;
+    try {
+      readTable(g(), { mapping: { rename: { DOM_99: '99' } } });
+    } catch (e) {
+      err = e;
+    }
+    expect(err).toBeInstanceOf(InputError);
+    expect((err as InputError).code).toBe('mapping-unknown-code');
+    expect((err as InputError).message).toMatch(/prefix\.csv.*'DOM_99'/);
+  });
+
+  it('a rename that is not an object of texts is a mapping error', () => {
+    expect(() => parseMapping('{"rename": {"A": 3}}', 'm.json')).toThrow(/m\.json: rename must be an object/);
+    expect(() => parseMapping('{"rename": ["A"]}', 'm.json')).toThrow(/rename must be/);
   });
 });
