@@ -138,12 +138,16 @@ function orient(sb: SourceBlock, source: TableSource, options: ReadTableOptions)
  */
 function affixes(sb: SourceBlock, options: ReadTableOptions): SourceBlock {
   if (options.mapping?.affixCodes === false) return sb;
-  let b = sb.block;
-  if (b instanceof DenseBlock) b = new DenseBlock(b.file, b.rows.map((e) => ({ ...e })), b.cols.map((e) => ({ ...e })), b.data, b.sheet);
+  const b = ownEntries(sb.block);
   const r = matchAffixes(b, cutCodeAndLabel);
   if (!r) return sb;
   const extra = r.split && b.shape === 'wide' ? { ...sb.extra, splitCodes: true } : sb.extra;
   return { ...sb, block: b, extra, findings: [...sb.findings, r.finding] };
+}
+
+/** A block whose entries the rules may change: a long file's block (kept by its source) is copied; a sheet's is new each read. */
+function ownEntries(b: Block): Block {
+  return b instanceof DenseBlock ? new DenseBlock(b.file, b.rows.map((e) => ({ ...e })), b.cols.map((e) => ({ ...e })), b.data, b.sheet) : b;
 }
 
 /**
@@ -154,8 +158,7 @@ function affixes(sb: SourceBlock, options: ReadTableOptions): SourceBlock {
 function renamed(sb: SourceBlock, options: ReadTableOptions): SourceBlock {
   const rename = options.mapping?.rename;
   if (!rename || !Object.keys(rename).length) return sb;
-  let b = sb.block;
-  if (b instanceof DenseBlock) b = new DenseBlock(b.file, b.rows.map((e) => ({ ...e })), b.cols.map((e) => ({ ...e })), b.data, b.sheet);
+  const b = ownEntries(sb.block);
   const known = new Set([...b.rows, ...b.cols].map((e) => e.code));
   for (const from of Object.keys(rename)) {
     if (!known.has(from)) {
