@@ -76,6 +76,20 @@ describe('rule affix-codes: row and column codes that differ by an affix, code a
     expect((err as InputError).message).toMatch(/DOM_01/);
   });
 
+  it('products and industries numbered alike, with labels that differ, are not matched (two classifications)', () => {
+    const t = affixTable(5, 13);
+    const rows = affixLayout(t, 'prefix');
+    // The label row (4th line) says products where the rows say industries.
+    rows[3] = rows[3]!.map((c, j) => (j >= 2 && j < 2 + t.codes.length ? `Products of ${String(c).toLowerCase()}` : c));
+    let err: unknown;
+    try {
+      readTable(gridFromRows(rows, 'products.csv'));
+    } catch (e) {
+      err = e;
+    }
+    expect((err as InputError).code).toBe('row-without-column');
+  });
+
   it('codes that already match are left alone (no affix note)', () => {
     const t = affixTable(6, 5);
     const r = readTable(gridFromRows(affixLayout(t, 'colon-cells'), 'same.csv'));

@@ -11,7 +11,8 @@
  * taken apart first. The sectors take the common stem as their code. A second block of rows with
  * another affix over the same stems (the labels repeated) is imported use by product: its rows are
  * imports (summed into the imports row), not a second set of sectors; the block whose affix says
- * import (IMP, M) is the imported one, else the later block.
+ * import (IMP, M) is the imported one, else the later block. Where both axes carry labels, most
+ * matched stems must carry the same label on both (else they are two classifications).
  *
  * Cost: a few candidate affixes per axis (those shared by three codes or more, the ten most
  * shared), each pair compared over the codes once; the rule runs only when the exact codes match
@@ -108,6 +109,26 @@ export function matchAffixes(block: Block, cut: (text: string) => { code: string
     const s = stemOf(code, best.r);
     if (s !== undefined && colStems.has(s)) rowStems.add(s);
   });
+  // Where rows and columns both carry labels, most matched stems must carry the same label on
+  // both axes: products and industries numbered alike ('P01 Products of agriculture' against
+  // 'I01 Agriculture') are two classifications, not one sector with two codes.
+  let labelled = 0;
+  let agree = 0;
+  const norm = (t: string) => t.toLowerCase().replace(/\s+/g, ' ').trim();
+  const colLabel = new Map<string, string>();
+  cCodes.forEach((code, j) => {
+    const st = stemOf(code, best.c);
+    if (st !== undefined && colStems.get(st) === j && cp[j]!.label !== code) colLabel.set(st, norm(cp[j]!.label));
+  });
+  const seenStem = new Set<string>();
+  rCodes.forEach((code, i) => {
+    const st = stemOf(code, best.r);
+    if (st === undefined || seenStem.has(st) || !colLabel.has(st) || rp[i]!.label === code) return;
+    seenStem.add(st);
+    labelled++;
+    if (norm(rp[i]!.label) === colLabel.get(st)) agree++;
+  });
+  if (labelled >= 3 && agree * 2 < labelled) return undefined;
   // Another block of rows over the same stems under another affix: imported use by product.
   let other: Affix | undefined;
   let otherN = 0;
