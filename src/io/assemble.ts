@@ -130,7 +130,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     const o = overrideFor<ColumnRole>(colO, e);
     if (o?.role) return { role: o.role, why: 'mapping' };
     const sr = sheetRole(e, COLUMN_ROLES, 'column');
-    if (sr) return { role: sr, why: 'role written in the sheet' };
+    if (sr) return { role: sr, why: e.why ?? 'role written in the sheet' };
     let m: string | undefined;
     if ((m = codeOf(e, P.ignore)) || (m = P.ignore.label(e.label))) return { role: 'ignore', why: `ignore pattern ${m}` };
     if (kind === 'make' && (m = supplyExtra(e))) return { role: 'ignore', why: `${m}: part of the supply of products, but made by no industry (not read)` };
@@ -165,7 +165,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
     const o = overrideFor<RowRole>(rowO, e);
     if (o?.role) return { role: o.role, why: 'mapping' };
     const sr = sheetRole(e, ROW_ROLES, 'row');
-    if (sr) return { role: sr, why: 'role written in the sheet' };
+    if (sr) return { role: sr, why: e.why ?? 'role written in the sheet' };
     let m: string | undefined;
     if ((m = codeOf(e, P.ignore)) || (m = P.ignore.label(e.label))) return { role: 'ignore', why: `ignore pattern ${m}` };
     if (kind === 'make' && (m = supplyExtra(e))) return { role: 'ignore', why: `${m}: part of the supply of products, but made by no industry (not read)` };
@@ -402,7 +402,7 @@ export function classify(block: Block, options: AssembleOptions): Classified {
 
 /** Roles a user gave (in a mapping or written in the sheet): never changed by what the data suggest. */
 function isFixed(x: RoleWhy<string>): boolean {
-  return x.why === 'mapping' || x.why === 'role written in the sheet';
+  return x.why === 'mapping' || x.why === 'role written in the sheet' || x.why.endsWith('(rule affix-codes)');
 }
 
 /** The unit the block's figures seem rounded to (0 when unknown). */
@@ -1158,14 +1158,19 @@ function axisOf(entries: Entry[], idx: number[]): Axis {
 }
 
 /** The mapping as reported. */
+/** A line's why with the reason a rule gave its code (affix-codes), unless that is the why already. */
+function withRuleWhy(why: string, e: Entry): string {
+  return e.why && !why.includes(e.why) ? `${why}; ${e.why}` : why;
+}
+
 export function mappingOf(block: Block, c: Classified, kind: TableKind, options: AssembleOptions, extra: Partial<LayoutMapping>): LayoutMapping {
   const rows: MappedRow[] = block.rows.map((e, i) => {
-    const m: MappedRow = { code: e.code, label: e.label, role: c.rowRoles[i]!, row: e.at, why: c.rowWhy[i]! };
+    const m: MappedRow = { code: e.code, label: e.label, role: c.rowRoles[i]!, row: e.at, why: withRuleWhy(c.rowWhy[i]!, e) };
     const u = c.units[i];
     if (u !== undefined && (c.rowRoles[i] === 'satellite' || e.unit)) m.unit = u;
     return m;
   });
-  const columns: MappedColumn[] = block.cols.map((e, j) => ({ code: e.code, label: e.label, role: c.colRoles[j]!, column: e.at, why: c.colWhy[j]! }));
+  const columns: MappedColumn[] = block.cols.map((e, j) => ({ code: e.code, label: e.label, role: c.colRoles[j]!, column: e.at, why: withRuleWhy(c.colWhy[j]!, e) }));
   const m: LayoutMapping = {
     format: 'ripplewise-layout',
     version: 1,
@@ -1387,10 +1392,12 @@ function setClasses(block: Block, c: Classified, fd: number[], va: number[], fdA
     if (f) c.colWhy[j] = `${c.colWhy[j]}; ${f.why}`;
     return f?.cls;
   });
-  // The demand classes are shown in the mapping only for now: nothing in the engine reads them yet,
-  // and the table writers do not write them (a written table must read back identical).
-  void dc;
-  void fdAxis;
+  // The demand classes are set on the table only where they settle what the words alone would not:
+  // a column whose label says households but whose class is another ('Non-resident households' is
+  // exports, 'NPISHs serving households'), so that the one household column is still found for
+  // Type II (engine onlyClassed). Otherwise they stay in the mapping's why: the table writers do not
+  // write them, and a written table must read back identical.
+  if (dc.some((x, k) => x !== undefined && x !== 'households' && HOUSEHOLD_WORD.test(block.cols[fd[k]!]!.label))) fdAxis.classes = dc;
   const vc = va.map((i) => {
     const e = block.rows[i]!;
     const f = inputClassOf(e.code, e.label);
@@ -1400,6 +1407,9 @@ function setClasses(block: Block, c: Classified, fd: number[], va: number[], fdA
   // Only when some row is then not value added: otherwise every row counts, as without classes.
   if (vc.some((x) => x !== undefined && !VALUE_ADDED_CLASSES.includes(x))) vaAxis.classes = vc;
 }
+
+/** A label that names households (the households class rule's word). */
+const HOUSEHOLD_WORD = /\bhouseholds?\b/i;
 
 const BY_POSITION_ROW = 'its code names no column, after the sector rows';
 const BY_POSITION_COL = 'its code names no row, after the sector columns';

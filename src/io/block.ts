@@ -24,6 +24,8 @@ export interface Entry {
   group?: string;
   /** Where the code sits, for messages. */
   where?: Where;
+  /** A rule's reason for the code or role it gave the line (rule affix-codes), added to the mapping's why. */
+  why?: string;
 }
 
 export interface Block {

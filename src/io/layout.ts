@@ -146,6 +146,11 @@ function matchPairs(g: Grid): Pair[] {
         let numbers = 0;
         for (let j = c + 1; j < C; j++) if (g.kind(h, j) === NUMBER) numbers++;
         if (seen.size < 3 || seen.size * 2 < numbers) continue;
+        // Codes lead their rows: a column with numbers to its left in the rows it would name is
+        // data (fixture: test/helpers/affix-layouts.ts 'dom-imp-colon', where no text code matches).
+        let numbersLeft = false;
+        for (let k = 0; k < c && !numbersLeft; k++) if (g.kind(firstRow, k) === NUMBER) numbersLeft = true;
+        if (numbersLeft) continue;
       }
       pairs.push({ row: h, col: c, score: seen.size, textScore: text, meanLen: len / seen.size, firstRow, firstCol, headed: /^codes?$/i.test(codeAt(g, h, c)) });
     }
@@ -680,6 +685,24 @@ function groupHeadersInCodeRow(g: Grid, dataCols: number[], codeRow: number | nu
 
 /** A code written before its label in one cell: a code-like word (capitals, digits, '.', '-', '_', '/'), a space, a label with a letter. */
 const CODE_AND_LABEL = /^([A-Z0-9][A-Z0-9._\-\u2013/]{0,11})(?:\s+[-\u2013\u2014:]\s+|:\s+|\s+)([\p{L}\p{N}(].*\p{L}.*)$/u;
+/**
+ * Code and label with an explicit separator ('CoE: Compensation of employees', 'TlSPrdn - Taxes
+ * on production'): the code may then have small letters, when it still looks like a code (a
+ * digit, '_' or '.', or a capital after a small letter), so that 'Trade - Wholesale' stays whole.
+ */
+const CODE_COLON_LABEL = /^([\p{L}\p{N}][\p{L}\p{N}._\-\u2013/]{0,11})(?::\s+|\s+[-\u2013\u2014]\s+)([\p{L}\p{N}(].*\p{L}.*)$/u;
+const CODE_LIKE = /[\d_.]|\p{Ll}\p{Lu}|^[^\p{Ll}]+$/u;
+
+/** A cell holding code and label taken apart ('A01 Crops', 'A01 - Crops', 'CoE: Compensation'), or null. */
+export function cutCodeAndLabel(text: string): { code: string; label: string } | null {
+  let m = CODE_AND_LABEL.exec(text);
+  if (m && !/[\d._\-\u2013/]/.test(m[1]!) && !/\p{Ll}/u.test(m[2]!)) m = null;
+  if (!m) {
+    m = CODE_COLON_LABEL.exec(text);
+    if (m && !CODE_LIKE.test(m[1]!)) m = null;
+  }
+  return m ? { code: m[1]!, label: m[2]!.trim() } : null;
+}
 
 /**
  * Code and label written in one cell ('A01 Crops', 'P3_S14 Final consumption of households'),
@@ -694,12 +717,11 @@ const CODE_AND_LABEL = /^([A-Z0-9][A-Z0-9._\-\u2013/]{0,11})(?:\s+[-\u2013\u2014
  */
 function splitCodes(rows: Entry[], cols: Entry[], rowsAlone: boolean, colsAlone: boolean, given: boolean | undefined): boolean {
   if (given === false || (!rowsAlone && !colsAlone)) return false;
+  // 'FOOD PRODUCTS' is a label in capitals, not the code FOOD: a code of letters alone needs a
+  // label with small letters after it (cutCodeAndLabel).
   const cut = (e: Entry) => {
-    const m = e.label === e.code ? CODE_AND_LABEL.exec(e.code) : null;
-    // 'FOOD PRODUCTS' is a label in capitals, not the code FOOD: a code of letters alone needs a
-    // label with small letters after it.
-    if (m && !/[\d._\-\u2013/]/.test(m[1]!) && !/\p{Ll}/u.test(m[2]!)) return null;
-    return m;
+    const p = e.label === e.code ? cutCodeAndLabel(e.code) : null;
+    return p ? ['', p.code, p.label] : null;
   };
   const colKeys = new Set(cols.map((e) => e.code));
   const rowKeys = new Set(rows.map((e) => e.code));
@@ -728,7 +750,7 @@ function splitCodes(rows: Entry[], cols: Entry[], rowsAlone: boolean, colsAlone:
       [cols, colsAlone, rowKeys],
     ] as const) {
       if (!alone) continue;
-      const words = list.map(cut).filter((m): m is RegExpExecArray => !!m).map((m) => m[1]!);
+      const words = list.map(cut).filter((m): m is string[] => !!m).map((m) => m[1]!);
       const matched = words.filter((w) => other.has(w));
       const hits = new Set(matched);
       if (hits.size >= 2 && hits.size === matched.length && hits.size * 2 > words.length) return true;

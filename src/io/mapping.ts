@@ -79,6 +79,14 @@ export interface LayoutMapping {
    * label (reported as true when the reader did so); false keeps each text whole.
    */
   splitCodes?: boolean;
+  /** Rule affix-codes: false keeps row and column codes as written, even when they differ only by an affix. */
+  affixCodes?: boolean;
+  /**
+   * Codes renamed before anything else is read: { "from": "to" }, for the rows and columns that
+   * carry the code (sectors, final demand, value added alike); a row code can so be made equal
+   * to a column code. A code that names no row or column is an error.
+   */
+  rename?: Record<string, string>;
   /** Long files: the 1-based fields of the row code, the column code and the value, and the header line if any. */
   rowCodeField?: number;
   columnCodeField?: number;
@@ -208,6 +216,13 @@ export function parseMapping(input: string | unknown, file = 'mapping'): Mapping
     throw new InputError('bad-mapping', `file ${file}: select must be an object of field names (or numbers) and the texts to keep, such as { "TIME_PERIOD": "2020" }`, { file });
   }
   if (m.splitCodes !== undefined && typeof m.splitCodes !== 'boolean') throw new InputError('bad-mapping', `file ${file}: splitCodes must be true or false`, { file });
+  if (m.affixCodes !== undefined && typeof m.affixCodes !== 'boolean') throw new InputError('bad-mapping', `file ${file}: affixCodes must be true or false`, { file });
+  if (m.rename !== undefined) {
+    const r = m.rename;
+    if (typeof r !== 'object' || r === null || Array.isArray(r) || !Object.entries(r).every(([k, v]) => k.trim() !== '' && typeof v === 'string' && v.trim() !== '')) {
+      throw new InputError('bad-mapping', `file ${file}: rename must be an object of codes as written and the codes to read them as, such as { "DOM_01": "01" }; got ${JSON.stringify(r)}`, { file });
+    }
+  }
   if (m.blanks !== undefined && m.blanks !== 'error' && m.blanks !== 'zero') throw new InputError('bad-mapping', `file ${file}: blanks must be 'error' or 'zero'`, { file });
   if (m.zeroTexts !== undefined && !(Array.isArray(m.zeroTexts) && m.zeroTexts.every((x) => typeof x === 'string'))) {
     throw new InputError('bad-mapping', `file ${file}: zeroTexts must be a list of texts`, { file });

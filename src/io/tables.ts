@@ -9,7 +9,8 @@ import type { Axis, Table } from '../../engine/table';
 import { type AssembleOptions, assembleMatrix, assembleTable, classify, mappingOf } from './assemble';
 import { type Block, DenseBlock, type Entry } from './block';
 import { Grid } from './grid';
-import { detectStructure, type WideStructure } from './layout';
+import { cutCodeAndLabel, detectStructure, type WideStructure } from './layout';
+import { matchAffixes } from './rules/affix-codes';
 import type { LongTable } from './long';
 import type { LayoutMapping, MappingInput, TableKind } from './mapping';
 import { compilePatterns, resolvePatterns } from './patterns';
@@ -130,6 +131,55 @@ function orient(sb: SourceBlock, source: TableSource, options: ReadTableOptions)
   return { ...sb, block, extra, findings: [...sb.findings, note] };
 }
 
+/**
+ * Rule affix-codes (rules/affix-codes.ts) on the block of a symmetric table, unless the mapping
+ * turns it off (`affixCodes: false`): rows `DOM_01` and columns `D01` are one sector '01'; an
+ * `IMP_` block of the same products is imports. Supply and use tables keep their codes.
+ */
+function affixes(sb: SourceBlock, options: ReadTableOptions): SourceBlock {
+  if (options.mapping?.affixCodes === false) return sb;
+  const b = ownEntries(sb.block);
+  const r = matchAffixes(b, cutCodeAndLabel);
+  if (!r) return sb;
+  const extra = r.split && b.shape === 'wide' ? { ...sb.extra, splitCodes: true } : sb.extra;
+  return { ...sb, block: b, extra, findings: [...sb.findings, r.finding] };
+}
+
+/** A block whose entries the rules may change: a long file's block (kept by its source) is copied; a sheet's is new each read. */
+function ownEntries(b: Block): Block {
+  return b instanceof DenseBlock ? new DenseBlock(b.file, b.rows.map((e) => ({ ...e })), b.cols.map((e) => ({ ...e })), b.data, b.sheet) : b;
+}
+
+/**
+ * The mapping's `rename` ({ from: to }) applied to the block's rows and columns before the rules
+ * read them; each renamed line says so in its why. A code that names no row and no column is a
+ * `mapping-unknown-code` error naming the file and the code.
+ */
+function renamed(sb: SourceBlock, options: ReadTableOptions): SourceBlock {
+  const rename = options.mapping?.rename;
+  if (!rename || !Object.keys(rename).length) return sb;
+  const b = ownEntries(sb.block);
+  const known = new Set([...b.rows, ...b.cols].map((e) => e.code));
+  for (const from of Object.keys(rename)) {
+    if (!known.has(from)) {
+      throw new InputError(
+        'mapping-unknown-code',
+        `file ${b.file}${b.sheet ? `, sheet '${b.sheet}'` : ''}: the mapping renames '${from}', but no row or column has that code`,
+        { file: b.file, text: from },
+        `Known codes start ${[...known].slice(0, 8).map((c) => `'${c}'`).join(', ')}; rename a code as the mapping reports it without rename`,
+      );
+    }
+  }
+  for (const e of [...b.rows, ...b.cols]) {
+    const to = rename[e.code];
+    if (to === undefined) continue;
+    e.why = `code '${e.code}' renamed '${to}' by the mapping`;
+    if (e.label === e.code) e.label = to;
+    e.code = to;
+  }
+  return { ...sb, block: b, extra: { ...sb.extra, rename: { ...rename } } };
+}
+
 function optionsOf(kind: TableKind, options: ReadTableOptions): AssembleOptions {
   const o: AssembleOptions = { kind };
   if (options.mapping) o.mapping = options.mapping;
@@ -156,7 +206,7 @@ function kindOf(options: ReadTableOptions): 'flows' | 'coefficients' {
  */
 export function readTable(source: TableSource, options: ReadTableOptions = {}): TableRead {
   const kind = kindOf(options);
-  const sb = orient(sourceBlock(source, options.mapping), source, options);
+  const sb = affixes(renamed(orient(sourceBlock(source, options.mapping), source, options), options), options);
   const r = assembleTable(sb.block, optionsOf(kind, options), sb.meta, sb.extra);
   if (options.kind === undefined && options.mapping?.kind === undefined) {
     const why = looksLikeCoefficients(r);
@@ -230,7 +280,7 @@ export function readMatrix(source: TableSource, options: Omit<ReadTableOptions, 
  */
 export function detectLayout(source: TableSource, options: ReadTableOptions & { kind?: TableKind } = {}): { mapping: LayoutMapping; findings: Finding[] } {
   const kind = options.kind ?? options.mapping?.kind ?? 'flows';
-  const sb = kind === 'flows' || kind === 'coefficients' ? orient(sourceBlock(source, options.mapping), source, options) : sourceBlock(source, options.mapping);
+  const sb = kind === 'flows' || kind === 'coefficients' ? affixes(renamed(orient(sourceBlock(source, options.mapping), source, options), options), options) : sourceBlock(source, options.mapping);
   const o = optionsOf(kind, options);
   const c = classify(sb.block, o);
   const mapping = mappingOf(sb.block, c, kind, o, { ...sb.extra, meta: { ...sb.meta, ...(options.mapping?.meta ?? {}) } });

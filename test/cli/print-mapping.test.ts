@@ -26,6 +26,28 @@ describe('convert --print-mapping', () => {
     expect(r.stderr).toMatch(/appears twice/);
   });
 
+  it('shows a mapping\'s rename in the printed mapping and in each renamed line\'s why; an unknown code names the file and the code', async () => {
+    const dir = tempDir();
+    const file = join(dir, 'prefix.csv');
+    // Invented: rows DOM_xx, columns Dxx; the mapping equates them by renaming.
+    writeFileSync(file, 'code,label,D01,D02,D03,HH,OUT\nDOM_01,Farms,10,5,2,33,50\nDOM_02,Mills,4,20,6,70,100\nDOM_03,Shops,3,9,12,36,60\nCoE,Compensation of employees,20,40,25\nGOS,Operating surplus,13,26,15\nOUT,Total output,50,100,60\n');
+    const rename = { DOM_01: 'A', D01: 'A', DOM_02: 'B', D02: 'B', DOM_03: 'C', D03: 'C' };
+    const good = join(dir, 'rename.json');
+    writeFileSync(good, JSON.stringify({ affixCodes: false, rename }));
+    const r = await run(['convert', file, '--mapping', good, '--print-mapping']);
+    expect(r.code, r.stderr).toBe(0);
+    const m = JSON.parse(r.stdout);
+    expect(m.rename).toEqual(rename);
+    expect(m.rows.filter((x: { role: string }) => x.role === 'sector').map((x: { code: string }) => x.code)).toEqual(['A', 'B', 'C']);
+    expect(m.rows[0].why).toMatch(/code 'DOM_01' renamed 'A' by the mapping/);
+    const bad = join(dir, 'bad.json');
+    writeFileSync(bad, JSON.stringify({ rename: { DOM_09: 'I' } }));
+    const e = await run(['convert', file, '--mapping', bad, '--print-mapping']);
+    expect(e.code).not.toBe(0);
+    expect(JSON.parse(e.stdout).error.code).toBe('mapping-unknown-code');
+    expect(e.stderr).toMatch(/prefix\.csv: the mapping renames 'DOM_09', but no row or column has that code/);
+  });
+
   for (const [folder, name] of [
     ['scotland-2016-io', 'IO2016.xlsx'],
     ['abs-5246-worked-example', 'flows-1989-90.csv'],

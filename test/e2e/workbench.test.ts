@@ -263,6 +263,26 @@ describe.skipIf(!chromium)('the workbench in Chromium: files, projects and expor
     }
   });
 
+  it.skipIf(!beaAvailable())(`with no scrap typed, proposes the scrap commodity as the command line does: output multipliers are the column sums of Table 8 (source: ${BEA_SOURCE})`, async () => {
+    await nav('Open');
+    await fileInput().setInputFiles([join(BEA_DIR, 'make.txt'), join(BEA_DIR, 'use.txt')]);
+    await page.locator('#layout-h').waitFor();
+    await expect.poll(() => page.getByRole('radio', { name: 'Make table: make.txt' }).isChecked()).toBe(true);
+    await page.getByLabel('Scrap commodity code').fill('');
+    await page.getByRole('combobox', { name: /^Kind of requirements/ }).selectOption('industry-by-industry');
+    await page.getByRole('button', { name: 'Read the table' }).click();
+    await page.locator('#checks-h').waitFor({ timeout: 30_000 });
+    await expect.poll(() => page.locator('body').textContent(), { timeout: 20_000 }).toContain("'S004' is taken for scrap");
+    await nav('Multipliers');
+    const sums = new Map<string, number>();
+    for (const t of readTriplets('total-requirements-industry-by-industry.txt', 4)) sums.set(t.col, (sums.get(t.col) ?? 0) + t.value);
+    const f3 = new Intl.NumberFormat('en-US', { minimumFractionDigits: 3, maximumFractionDigits: 3 });
+    for (const code of ['1110', '2302', '3254']) {
+      const row = page.locator('#mult-table tbody tr').filter({ has: page.locator('th', { hasText: code }) }).first();
+      await expect.poll(() => row.textContent(), { timeout: 20_000 }).toContain(f3.format(sums.get(code)!));
+    }
+  });
+
   it.skipIf(!beaAvailable())(`reads make and use tables from two sheets of one workbook (source: ${BEA_SOURCE}, Tables 3, 4 and 8)`, async () => {
     // The agency's make and use lines as two sheets of one workbook (codes as text, values as numbers).
     const sheet = (file: string, fields: number) =>

@@ -108,6 +108,8 @@ export const layout = $state({
   /** The sheet shown in the preview. */
   active: 0,
   kind: 'flows' as 'flows' | 'coefficients',
+  /** Whether the user chose the kind; until then the reader proposes it (coefficients by content). */
+  kindChosen: false,
   /** Supply-use tables: which sheet is the make table (the other is the use table). */
   makeIndex: 0,
   suKind: 'industry-by-industry' as SymmetricKind,
@@ -301,8 +303,11 @@ export async function detect(i: number): Promise<void> {
   if (!p) return;
   const kind = layout.mode === 'supply-use' ? (i === layout.makeIndex ? 'make' : 'use') : layout.kind;
   const given = $state.snapshot(p.given) as MappingInput;
-  const r = await run<DetectResult>('Finding the layout', 'file-detect', { id: p.info.id, mapping: { ...given, kind }, kind });
+  // Until the user picks a kind, the reader proposes one (a coefficients table is read as such, with its reason).
+  const proposed = layout.mode === 'table' && !layout.kindChosen && given.kind === undefined;
+  const r = await run<DetectResult>('Finding the layout', 'file-detect', proposed ? { id: p.info.id, mapping: given } : { id: p.info.id, mapping: { ...given, kind }, kind });
   if (!r) return;
+  if (proposed && r.mapping?.kind === 'coefficients') layout.kind = 'coefficients';
   p.mapping = r.mapping ?? null;
   p.problem = r.problem ?? null;
   p.findings = r.findings;
@@ -341,6 +346,7 @@ export async function openFiles(list: File[]): Promise<void> {
     files.set(r.id, file);
     layout.mode = 'table';
     layout.kind = 'flows';
+    layout.kindChosen = false;
     layout.sheets = [pendingOf(r)];
     layout.active = 0;
     await detect(0);

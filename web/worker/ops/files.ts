@@ -182,6 +182,21 @@ function errorOf(e: unknown): { message: string; code?: string; where?: Record<s
   return out;
 }
 
+
+/**
+ * The reading of a sheet with no kind given, when the reader takes it for technical coefficients
+ * (its 'read-as-coefficients' note and mapping); undefined when it reads as flows or not at all.
+ */
+function coefficientsByContent(source: ReturnType<typeof sourceOf>, mapping: MappingInput | undefined): { mapping: LayoutMapping; note: Finding } | undefined {
+  try {
+    const r = readTable(source, mapping ? { mapping } : {});
+    const note = r.findings.find((f) => f.code === 'read-as-coefficients');
+    return note ? { mapping: r.mapping, note } : undefined;
+  } catch {
+    return undefined; // a sheet that does not read yet is shown with its detected layout and problem
+  }
+}
+
 export const fileOps: Record<string, Handler> = {
   /**
    * Open a file's bytes: a project file or a JSON table is read at once; a sheet is kept for the
@@ -257,6 +272,17 @@ export const fileOps: Record<string, Handler> = {
       const source = sourceOf(s, mapping);
       // detectLayout classifies make and use sheets too (src/io/assemble.ts classify), though its options type names flows and coefficients only.
       const r = detectLayout(source, { ...(mapping ? { mapping } : {}), kind: kind as 'flows' });
+      // Rule coefficients-by-content, as on the command line: with no kind chosen yet, a sheet that
+      // reads as technical coefficients (columns summing below 1, no output) is proposed so, with
+      // the reader's reason as a note, instead of flows that fail their checks.
+      if (args.kind === undefined && mapping?.kind === undefined) {
+        const coefficients = coefficientsByContent(source, mapping);
+        if (coefficients) {
+          r.mapping.kind = 'coefficients';
+          r.mapping.output = coefficients.mapping.output;
+          r.findings.push(coefficients.note);
+        }
+      }
       if (s.sheet !== undefined) r.mapping.sheet = s.sheet;
       r.mapping.file = s.name;
       if (s.grid.conventions || s.conventions) r.mapping.conventions = { ...(s.grid.conventions ?? s.conventions) };
