@@ -61,26 +61,41 @@ export function sharedCodes(sheet: SheetPeek): number {
   return best;
 }
 
-export interface SheetChoice<S extends SheetPeek = SheetPeek> {
+export interface SheetChoice<S extends { name: string }> {
   sheet: S;
   why: string;
   /** Other sheets that hold such a block, with their shared codes. */
   others: { name: string; codes: number; kind: string }[];
 }
 
-/** The sheet with the symmetric flow table, or undefined when no sheet shares at least 2 codes between a row and a column. */
-export function chooseSheet<S extends SheetPeek>(sheets: readonly S[]): SheetChoice<S> | undefined {
-  const scored = sheets.map((w) => {
-    const kind = RESULT_NAME.test(w.name) ? 'results' : SUPPLY_USE_NAME.test(w.name) ? 'supply or use' : 'flows';
-    return { w, codes: w.rows.some((r) => r.kinds.length > 0) ? sharedCodes(w) : 0, kind };
-  });
-  const ok = scored.filter((s) => s.codes >= 2);
+/** What a sheet's name says it holds: results, a supply or use table, or (by default) flows. */
+export function sheetKind(name: string): 'results' | 'supply or use' | 'flows' {
+  return RESULT_NAME.test(name) ? 'results' : SUPPLY_USE_NAME.test(name) ? 'supply or use' : 'flows';
+}
+
+/**
+ * The sheet with the symmetric flow table, or undefined when no sheet shares at least 2 codes
+ * between a row and a column. `rowsOf` gives a sheet's first rows and is called only for the
+ * sheets looked at: those not named as results or supply and use tables first, the others only
+ * when none of those holds such a block (reading fewer sheets is most of the cost of choosing).
+ */
+export function chooseSheet<S extends { name: string }>(sheets: readonly S[], rowsOf: (s: S) => readonly GridRow[]): SheetChoice<S> | undefined {
+  const score = (list: readonly S[]) =>
+    list
+      .map((w) => {
+        const rows = rowsOf(w);
+        return { w, codes: rows.some((r) => r.kinds.length > 0) ? sharedCodes({ name: w.name, rows }) : 0, kind: sheetKind(w.name) };
+      })
+      .filter((x) => x.codes >= 2);
+  const named = sheets.filter((w) => sheetKind(w.name) !== 'flows');
+  let ok = score(sheets.filter((w) => sheetKind(w.name) === 'flows'));
+  const skipped = ok.length ? named.length : 0;
+  if (!ok.length) ok = score(named);
   if (!ok.length) return undefined;
-  const pool = ok.some((s) => s.kind === 'flows') ? ok.filter((s) => s.kind === 'flows') : ok;
-  const best = pool.reduce((a, b) => (b.codes > a.codes ? b : a));
+  const best = ok.reduce((a, b) => (b.codes > a.codes ? b : a));
   return {
     sheet: best.w,
-    why: `its header row and lead column share ${best.codes} codes, the largest such block${best.kind === 'flows' && ok.length > pool.length ? ' among sheets not named as results or supply and use tables' : ''}`,
-    others: ok.filter((s) => s !== best).map((s) => ({ name: s.w.name, codes: s.codes, kind: s.kind })),
+    why: `its header row and lead column share ${best.codes} codes, the largest such block${skipped ? ` among sheets not named as results or supply and use tables (${skipped} such sheet${skipped > 1 ? 's were' : ' was'} not looked at)` : ''}`,
+    others: ok.filter((x) => x !== best).map((x) => ({ name: x.w.name, codes: x.codes, kind: x.kind })),
   };
 }

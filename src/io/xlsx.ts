@@ -581,21 +581,23 @@ export async function readXlsx(bytes: Uint8Array, options: XlsxOptions): Promise
   const dates = dateStyles(pkg);
   let info: XlsxSheetInfo | undefined;
   const want = options.sheet;
+  // Sheets looked at to choose one; a look that reached the sheet's end is its whole read.
+  const peeked = new Map<XlsxSheetInfo, SheetScan>();
   if (want === undefined) {
     // The first sheet that looks like a table (rows with several numbers), else the first with cells:
     // agency workbooks often open with a contents or notes sheet. Each is looked at over its first rows only.
     // By content first (sheet-choice.ts): the sheet whose header row and lead column share most codes.
     const peek = { ...options, maxRows: Math.min(Math.max(CHOOSE_ROWS, BODY_ROWS), options.maxRows ?? Infinity) };
-    const seen = new Map<XlsxSheetInfo, GridRow[]>();
     const look = (s: XlsxSheetInfo) => {
-      let rows = seen.get(s);
-      if (!rows) seen.set(s, (rows = scanSheet(pkg, s, sst, dates, peek, limits).rows));
-      return rows;
+      let scan = peeked.get(s);
+      if (!scan) peeked.set(s, (scan = scanSheet(pkg, s, sst, dates, peek, limits)));
+      return scan.rows;
     };
-    const chosen = pkg.sheets.length > 1 ? chooseSheet(pkg.sheets.map((s) => ({ name: s.name, info: s, rows: look(s) }))) : undefined;
-    const tabular = chosen?.sheet.info ?? pkg.sheets.find((s) => numericRows(look(s)) >= 2);
+    const chosen = pkg.sheets.length > 1 ? chooseSheet(pkg.sheets, look) : undefined;
+    const tabular = chosen?.sheet ?? pkg.sheets.find((s) => numericRows(look(s)) >= 2);
     info = tabular ?? pkg.sheets.find((s) => hasCells(look(s))) ?? pkg.sheets[0];
-    const others = pkg.sheets.filter((s) => s !== info && hasCells(look(s))).map((s) => s.name);
+    // The other sheets named in the note are those with cells: a sheet not looked at is read up to its first cell only.
+    const others = pkg.sheets.filter((s) => s !== info && hasCells(peeked.get(s)?.rows ?? scanSheet(pkg, s, sst, dates, peek, limits, true).rows)).map((s) => s.name);
     if (chosen && others.length) {
       findings.push({ code: 'sheet-chosen', severity: 'note', message: `file ${file}: read sheet '${chosen.sheet.name}': ${chosen.why}; other candidates: ${chosen.others.map((o) => `'${o.name}' (${o.codes} codes${o.kind !== 'flows' ? `, named as ${o.kind}` : ''})`).join(', ') || 'none'}; the workbook also has ${others.map((s) => `'${s}'`).join(', ')} (choose one with sheet)`, where: { file, sheet: chosen.sheet.name }, data: { candidates: chosen.others.map((o) => o.name) } });
     } else if (info && others.length) {
@@ -612,7 +614,8 @@ export async function readXlsx(bytes: Uint8Array, options: XlsxOptions): Promise
     if (!info) throw new InputError('unknown-sheet', `file ${file} has no sheet '${want}'; its sheets are ${sheets.map((s) => `'${s}'`).join(', ')}`, { file }, 'Give one of those names, or a sheet number from 1');
   }
   if (!info) throw new InputError('empty-file', `file ${file} has no sheets`, { file });
-  const scan = scanSheet(pkg, info, sst, dates, options, limits);
+  const early = peeked.get(info);
+  const scan = early?.complete ? early : scanSheet(pkg, info, sst, dates, options, limits);
   const sheet = info.name;
   const grid = new Grid(file, scan.rows, sheet, scan.merges);
   grid.conventions = { ...scan.numbers.conventions() };
