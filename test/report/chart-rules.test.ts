@@ -22,14 +22,15 @@ describe('one rule for significant digits', () => {
     expect(fractionDigits([0, NaN])).toBe(0);
   });
 
-  it('a number alone is a group of one; blanks are blank; no "-0"', () => {
+  it('a number alone is a group of one, without trailing zeros; blanks are blank; no "-0"', () => {
     const f = numberFormat('en-GB');
-    expect(f(734.95)).toBe('735.0');
+    expect(f(734.95)).toBe('735');
     expect(f(1.23456)).toBe('1.235');
+    expect([f(12), f(9.6), f(400)]).toEqual(['12', '9.6', '400']);
     expect(f(NaN)).toBe('');
     expect(groupFormat([100], 'en-GB')(-0.001)).toBe('0.0');
     // In de-DE the decimal mark is a comma (source: Intl.NumberFormat, CLDR).
-    expect(numberFormat('de-DE')(1.5)).toBe('1,500');
+    expect(numberFormat('de-DE')(1.25)).toBe('1,25');
   });
 
   it('property: every number of a group has the same decimals, and the largest shows 4 significant digits', () => {

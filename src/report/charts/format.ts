@@ -8,7 +8,8 @@
  * - the whole part is never rounded (12,345.6 shows as 12,346);
  * - an axis's ticks get the digits their step needs (0, 0.5, 1.0, 1.5 → one digit), so that
  *   neighbouring ticks always differ;
- * - a number shown alone is a group of one.
+ * - a number shown alone (in a sentence, a tooltip) is a group of one, with its trailing zeros
+ *   dropped, since there is nothing to line up with: 12, 9.6, 400, 1.235.
  *
  * Files keep every digit; only the display is rounded. `numberFormat` and `groupFormat` are the
  * functions the report, the charts and the workbench call (web/lib/numbers.ts wraps them).
@@ -52,13 +53,13 @@ export function tickDigits(step: number): number {
 
 const formats = new Map<string, Intl.NumberFormat>();
 
-/** A number with exactly `digits` fraction digits in a locale; '' when it is not a finite number. */
-export function formatFixed(v: number, digits: number, locale?: string): string {
+/** A number with `digits` fraction digits in a locale (`trim`: trailing zeros dropped); '' when it is not a finite number. */
+export function formatFixed(v: number, digits: number, locale?: string, trim = false): string {
   if (!Number.isFinite(v)) return '';
-  const key = `${locale ?? ''}|${digits}`;
+  const key = `${locale ?? ''}|${digits}|${trim}`;
   let f = formats.get(key);
   if (!f) {
-    f = new Intl.NumberFormat(locale, { minimumFractionDigits: digits, maximumFractionDigits: digits });
+    f = new Intl.NumberFormat(locale, { minimumFractionDigits: trim ? 0 : digits, maximumFractionDigits: digits });
     formats.set(key, f);
   }
   // No "-0.00" for a tiny negative number.
@@ -77,7 +78,7 @@ function mark(f: (v: number) => string, locale: string | undefined, digits?: num
  * fraction digits. Not a finite number: '' (blank, never "NaN").
  */
 export function numberFormat(locale?: string, digits?: number): Formatter {
-  return mark((v: number) => formatFixed(v, digits ?? fractionDigits([v]), locale), locale, digits);
+  return mark((v: number) => (digits === undefined ? formatFixed(v, fractionDigits([v]), locale, true) : formatFixed(v, digits, locale)), locale, digits);
 }
 
 /** A formatter for numbers read together: one number of fraction digits for all of `values`. */
