@@ -81,6 +81,9 @@ describe.skipIf(!chromium)('the model views in Chromium', () => {
     // Before zooming, the SVG's own codes serve; nothing is pinned.
     expect(await map.locator('.pin-row').count()).toBe(0);
     await map.focus();
+    // From the top-left cell (the cursor may stay where an earlier test left it).
+    await page.keyboard.press('Home');
+    for (let k = 0; k < codes.length; k++) await page.keyboard.press('ArrowUp');
     for (let k = 0; k < 9; k++) await page.keyboard.press('ArrowDown');
     for (let k = 0; k < 11; k++) await page.keyboard.press('ArrowRight');
     for (let k = 0; k < 3; k++) await page.keyboard.press('+');
