@@ -501,6 +501,31 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
     expect(await list.isVisible()).toBe(true);
   });
 
+  it('changes a sector\'s code in the Edit table step, logged, refused when it clashes, undone and redone', async () => {
+    await nav('Edit table');
+    const pick = page.getByLabel('Sector whose code to change');
+    const values = () => pick.locator('option').evaluateAll((os) => os.map((o) => (o as HTMLOptionElement).value));
+    const before = await values();
+    const [from, other] = before as [string, string];
+    // A code already in use (in another case) is refused with a message naming it; the table stays.
+    await page.getByLabel('New code').fill(other.toLowerCase());
+    await page.getByRole('button', { name: 'Change the code' }).click();
+    await expect.poll(() => page.getByText(`is already used by sector ${other}`).count()).toBeGreaterThan(0);
+    expect(await values()).toEqual(before);
+    await page.getByLabel('New code').fill('NEWCODE');
+    await page.getByRole('button', { name: 'Change the code' }).click();
+    await expect.poll(values).toEqual(before.map((c) => (c === from ? 'NEWCODE' : c)));
+    await expect.poll(() => page.getByText(`code ${from} → NEWCODE`).count()).toBeGreaterThan(0);
+    const undo = page.getByRole('button', { name: 'Undo', exact: true });
+    await expect.poll(() => undo.getAttribute('title')).toMatch(new RegExp(`code ${from} → NEWCODE`));
+    await undo.click();
+    await expect.poll(values).toEqual(before);
+    await page.getByRole('button', { name: 'Redo', exact: true }).click();
+    await expect.poll(values).toEqual(before.map((c) => (c === from ? 'NEWCODE' : c)));
+    await undo.click();
+    await expect.poll(values).toEqual(before);
+  });
+
   it('raised no page error and sent no request beyond 127.0.0.1', () => {
     expect(b.errors).toEqual([]);
     expect(b.outside).toEqual([]);
