@@ -3,12 +3,31 @@
  * report's locale for HTML, and as spreadsheet number formats for XLSX. Files keep every digit;
  * only the display is rounded.
  */
-import type { Column } from './model';
+import type { Cell, Column, ReportTable } from './model';
 import { STYLE_DIGITS } from './model';
+import { fractionDigits } from './charts/format';
 
-/** Fraction digits shown for a number column. */
-export function columnDigits(c: Column): number {
-  return c.digits ?? STYLE_DIGITS[c.style ?? 'amount'];
+/**
+ * Fraction digits shown for a number column: its own `digits` if set, none for counts, else the
+ * one rule of src/report/charts/format.ts over the column's `values` (four significant digits of
+ * the largest, the same for every row); the style's digits only when no values are given.
+ */
+export function columnDigits(c: Column, values?: readonly Cell[]): number {
+  if (c.digits !== undefined) return c.digits;
+  if (c.style === 'count') return 0;
+  if (values) return fractionDigits(values.filter((v): v is number => typeof v === 'number'));
+  return STYLE_DIGITS[c.style ?? 'amount'];
+}
+
+/** A table's columns with the digits of each number column fixed from its rows and totals. */
+export function shownColumns(t: ReportTable): Column[] {
+  return t.columns.map((c, i) => (c.type === 'number' ? { ...c, digits: columnDigits(c, [...t.rows.map((r) => r[i] ?? null), ...(t.totals ? [t.totals[i] ?? null] : [])]) } : c));
+}
+
+/** The column of a single number (a headline): the rule over that number alone. */
+export function singleColumn(style: Column['style'], v: number | null): Column {
+  const c: Column = { key: 'v', label: '', type: 'number', style: style ?? 'amount' };
+  return { ...c, digits: columnDigits(c, [v]) };
 }
 
 /** A formatter for a column's numbers in a locale; blank for null. */

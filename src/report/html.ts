@@ -11,7 +11,7 @@
 import { groupedBars, linkageQuadrant, numberFormat, percentileBands, stackedBars, tornado } from './charts';
 import { EFFECT_COLOURS } from './charts/palette';
 import { escapeXml } from './charts/svg';
-import { cellFormatter } from './format';
+import { cellFormatter, shownColumns, singleColumn } from './format';
 import type { Cell, ChartSpec, Column, Headline, Report, ReportTable, Section } from './model';
 import { failureLines } from './model';
 import { sha256Base64 } from './sha256';
@@ -165,7 +165,7 @@ function tableSentence(r: Report): string {
 function headlineTable(h: readonly Headline[], fmt: (v: number | null, c: Column) => string): string {
   const rows = h
     .map((x) => {
-      const col: Column = { key: 'v', label: '', type: 'number', style: x.style ?? 'amount' };
+      const col = singleColumn(x.style, x.value);
       return `<tr><td>${e(x.label)}</td>${numCell(x.value, col, fmt)}<td>${e(x.unit)}</td>${x.note ? `<td class="note">${e(x.note)}</td>` : ''}</tr>`;
     })
     .join('\n');
@@ -189,8 +189,9 @@ function cellHtml(v: Cell, c: Column, fmt: (v: number | null, c: Column) => stri
 /** One table of the model as HTML, with its units in the header and its notes below. */
 export function tableHtml(t: ReportTable, fmt: (v: number | null, c: Column) => string): string {
   const head = t.columns.map((c) => `<th${c.type === 'number' ? ' class="num"' : ''} scope="col">${e(c.label)}${c.type === 'number' && c.unit ? `<span class="unit">${e(c.unit)}</span>` : ''}</th>`).join('');
-  const body = t.rows.map((r) => `<tr>${r.map((v, i) => cellHtml(v, t.columns[i]!, fmt)).join('')}</tr>`).join('\n');
-  const foot = t.totals ? `<tfoot><tr>${t.totals.map((v, i) => cellHtml(v, t.columns[i]!, fmt)).join('')}</tr></tfoot>` : '';
+  const cols = shownColumns(t);
+  const body = t.rows.map((r) => `<tr>${r.map((v, i) => cellHtml(v, cols[i]!, fmt)).join('')}</tr>`).join('\n');
+  const foot = t.totals ? `<tfoot><tr>${t.totals.map((v, i) => cellHtml(v, cols[i]!, fmt)).join('')}</tr></tfoot>` : '';
   const notes = t.notes.length ? `<ul class="notes">${t.notes.map((n) => `<li>${e(n)}</li>`).join('')}</ul>` : '';
   const about = t.about ? `<p class="about">${e(t.about)}</p>` : '';
   return `<div class="scroll" id="${e(`t-${t.id}`)}">${about}<table data-table="${e(t.id)}"><caption>${e(t.title)}</caption><thead><tr>${head}</tr></thead><tbody>\n${body}\n</tbody>${foot}</table></div>${notes}`;

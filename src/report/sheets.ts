@@ -6,7 +6,7 @@
  * the XLSX writer as it sets each text cell, the CSV writer through src/io's `cellsToCsv`).
  * Numbers stay numbers, so a negative impact is a negative number, never text.
  */
-import { headerWithUnit, xlsxNumberFormat } from './format';
+import { headerWithUnit, shownColumns, singleColumn, xlsxNumberFormat } from './format';
 import type { Cell, Column, Report, ReportTable, Section } from './model';
 import { failureLines } from './model';
 
@@ -58,8 +58,9 @@ export function tableRows(t: ReportTable): LayoutRow[] {
   const out: LayoutRow[] = [row('heading', t.title)];
   if (t.about) out.push(row('about', t.about));
   out.push({ kind: 'header', table: t.id, cells: t.columns.map((c) => textCell(headerWithUnit(c))) });
-  for (const r of t.rows) out.push({ kind: 'data', table: t.id, cells: r.map((v, i) => cell(v, t.columns[i])) });
-  if (t.totals) out.push({ kind: 'total', table: t.id, cells: t.totals.map((v, i) => cell(v, t.columns[i])) });
+  const cols = shownColumns(t);
+  for (const r of t.rows) out.push({ kind: 'data', table: t.id, cells: r.map((v, i) => cell(v, cols[i])) });
+  if (t.totals) out.push({ kind: 'total', table: t.id, cells: t.totals.map((v, i) => cell(v, cols[i])) });
   for (const n of t.notes) out.push(row('note', n));
   out.push(blank());
   return out;
@@ -108,8 +109,7 @@ export function reportSheets(r: Report): SheetLayout[] {
   if (r.headlines.length) {
     summary.push(row('heading', 'Headline results'), { kind: 'header', table: 'headlines', cells: ['Result', 'Value', 'Unit'].map(textCell) });
     for (const h of r.headlines) {
-      const c: Column = { key: 'v', label: '', type: 'number', style: h.style ?? 'amount' };
-      summary.push({ kind: 'data', table: 'headlines', cells: [textCell(h.label), cell(h.value, c), textCell(h.unit)] });
+      summary.push({ kind: 'data', table: 'headlines', cells: [textCell(h.label), cell(h.value, singleColumn(h.style, h.value)), textCell(h.unit)] });
     }
     summary.push(blank());
   }

@@ -72,6 +72,61 @@ describe.skipIf(!chromium)('the model views in Chromium', () => {
     await screenshot(page, 'views-coefficients');
   });
 
+  it('keeps the heat map\'s codes and colour legend in view when zoomed and panned', async () => {
+    await nav('Coefficients');
+    const map = page.getByRole('application');
+    await map.locator('svg[role="img"]').waitFor();
+    await map.scrollIntoViewIfNeeded();
+    const codes = (demo as { sectors: { codes: string[] } }).sectors.codes;
+    // Before zooming, the SVG's own codes serve; nothing is pinned.
+    expect(await map.locator('.pin-row').count()).toBe(0);
+    await map.focus();
+    // From the top-left cell (the cursor may stay where an earlier test left it).
+    await page.keyboard.press('Home');
+    for (let k = 0; k < codes.length; k++) await page.keyboard.press('ArrowUp');
+    for (let k = 0; k < 9; k++) await page.keyboard.press('ArrowDown');
+    for (let k = 0; k < 11; k++) await page.keyboard.press('ArrowRight');
+    for (let k = 0; k < 3; k++) await page.keyboard.press('+');
+    await expect.poll(() => page.locator('.tools .muted').textContent()).toMatch(/Zoom 3\.4×/);
+    await expect.poll(() => page.locator('#heatmap-readout').textContent()).toMatch(new RegExp(`^Row 10, column 12: .*\\(${codes[9]}\\) → .*\\(${codes[11]}\\)`));
+    const port = (await map.boundingBox())!;
+    const cursor = (await map.locator('.cursor').boundingBox())!;
+    // The cursor cell's row and column codes are pinned at the edges, level with the cell.
+    const row = map.locator('.pin-row', { hasText: new RegExp(`^${codes[9]}$`) });
+    const col = map.locator('.pin-col', { hasText: new RegExp(`^${codes[11]}$`) });
+    await row.waitFor();
+    await col.waitFor();
+    const rb = (await row.boundingBox())!;
+    const cb = (await col.boundingBox())!;
+    expect(Math.abs(rb.y + rb.height / 2 - (cursor.y + cursor.height / 2))).toBeLessThan(cursor.height / 2);
+    expect(Math.abs(cb.x + cb.width / 2 - (cursor.x + cursor.width / 2))).toBeLessThan(cursor.width / 2);
+    expect(rb.x).toBeGreaterThanOrEqual(port.x - 1);
+    expect(rb.x + rb.width).toBeLessThan(port.x + 80);
+    expect(cb.y).toBeGreaterThanOrEqual(port.y - 1);
+    expect(cb.y + cb.height).toBeLessThan(port.y + 70);
+    // Only codes of rows in view are pinned, each inside the view.
+    const shown = await map.locator('.pin-row').allTextContents();
+    expect(shown.length).toBeGreaterThan(0);
+    expect(shown.length).toBeLessThan(codes.length);
+    for (const t of shown) expect(codes).toContain(t);
+    // The colour legend stays outside the zoomed picture, unscaled, with its scale and note.
+    const legend = page.locator('.heat-legend svg.rw-heat-legend');
+    await expect.poll(() => legend.count()).toBe(1);
+    expect(await map.locator('.rw-heat-legend').count()).toBe(0);
+    const lb = (await legend.boundingBox())!;
+    expect(lb.y).toBeGreaterThanOrEqual(port.y + port.height - 1);
+    expect(await legend.textContent()).toMatch(/square-root colour scale; empty cells are zero/);
+    // Dragging pans; the pinned codes follow the cells in view.
+    await page.mouse.move(port.x + port.width / 2, port.y + port.height / 2);
+    await page.mouse.down();
+    await page.mouse.move(port.x + port.width / 2 + 120, port.y + port.height / 2 + 120, { steps: 4 });
+    await page.mouse.up();
+    await expect.poll(async () => (await map.locator('.pin-row').allTextContents()).join(' ')).not.toBe(shown.join(' '));
+    await screenshot(page, 'views-coefficients-zoomed');
+    await page.keyboard.press('0');
+    await expect.poll(() => map.locator('.pin-row').count()).toBe(0);
+  });
+
   it('shows multipliers for every measure with Type I and Type II, sortable, as the engine computes them', async () => {
     await nav('Multipliers');
     const table = page.locator('#mult-table');

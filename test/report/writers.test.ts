@@ -18,9 +18,25 @@ import { hostileReport, PAYLOADS, RISKY } from './fixture';
 const ENTITIES: Record<string, string> = { '&amp;': '&', '&lt;': '<', '&gt;': '>', '&quot;': '"', '&#39;': "'" };
 const unescape = (s: string) => s.replace(/&(amp|lt|gt|quot|#39);/g, (m) => ENTITIES[m]!);
 
+/**
+ * The one display rule, restated here from its description (src/report/charts/format.ts): a
+ * column shows the fraction digits that give its largest absolute value four significant digits
+ * (0 to 6), counts none, a column's own digits when it fixes them.
+ */
+function ruleDigits(c: Column, values: readonly Cell[]): number {
+  if (c.digits !== undefined) return c.digits;
+  if (c.style === 'count') return 0;
+  const nums = values.filter((v): v is number => typeof v === 'number' && Number.isFinite(v) && v !== 0).map(Math.abs);
+  if (!nums.length) return 0;
+  // The largest, rounded to four significant digits (9.9996 counts as 10.00).
+  const max = Number(Math.max(...nums).toPrecision(4));
+  const whole = max >= 1 ? String(Math.floor(max)).length : Math.floor(Math.log10(max)) + 1;
+  return Math.max(0, Math.min(6, 4 - whole));
+}
+
 function fmt(v: number, c: Column, locale: string): string {
   const d = c.digits ?? STYLE_DIGITS[c.style ?? 'amount'];
-  return new Intl.NumberFormat(locale, { minimumFractionDigits: d, maximumFractionDigits: d }).format(v);
+  return new Intl.NumberFormat(locale, { minimumFractionDigits: d, maximumFractionDigits: d }).format(Math.abs(v) < 0.5 * 10 ** -d ? 0 : v);
 }
 
 let report: Report;
@@ -70,7 +86,8 @@ function sameCell(got: { num: boolean; value: string; shown: string }, want: Cel
 describe('HTML report', () => {
   it('every number cell of every table equals the JSON (data-value exact, text in the locale), blanks blank', () => {
     let cells = 0;
-    for (const t of reportTables(json)) {
+    for (const t0 of reportTables(json)) {
+      const t = { ...t0, columns: t0.columns.map((c, j) => (c.type === 'number' ? { ...c, digits: ruleDigits(c, [...t0.rows.map((r) => r[j] ?? null), ...(t0.totals ? [t0.totals[j] ?? null] : [])]) } : c)) };
       const h = htmlTable(t.id);
       expect(h.body.length, t.id).toBe(t.rows.length);
       t.rows.forEach((r, i) => {
@@ -157,7 +174,10 @@ describe('HTML report', () => {
     const de = writeHtml(hostileReport({ locale: 'de-DE' }));
     const t = reportTables(json).find((x) => x.id === 'extraction-ranking')!;
     const v = t.rows[0]![2] as number;
-    expect(de).toContain(`>${new Intl.NumberFormat('de-DE', { minimumFractionDigits: 2, maximumFractionDigits: 2 }).format(v)}<`);
+    const d = ruleDigits(t.columns[2]!, t.rows.map((r) => r[2] ?? null));
+    expect(de).toContain(`>${new Intl.NumberFormat('de-DE', { minimumFractionDigits: d, maximumFractionDigits: d }).format(v)}<`);
+    // 12345.678 in de-DE with one decimal (source: Intl.NumberFormat): "12.345,7".
+    expect(new Intl.NumberFormat('de-DE', { minimumFractionDigits: 1, maximumFractionDigits: 1 }).format(12345.678)).toBe('12.345,7');
     expect(de).toMatch(/<html lang="de">/);
   });
 });

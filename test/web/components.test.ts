@@ -22,7 +22,7 @@ describe('components', () => {
         caption: 'Multipliers',
         columns: [
           { key: 'label', label: 'Sector' },
-          { key: 'typeI', label: 'Type I', numeric: true, digits: 3 },
+          { key: 'typeI', label: 'Type I', numeric: true },
         ],
         rows: [
           { code: 'A', label: 'Alpha', typeI: Number.NaN },
@@ -43,7 +43,9 @@ describe('components', () => {
     const order = ['Gamma', '&lt;img', 'Alpha'].map((s) => body.indexOf(s));
     expect(order[0]).toBeLessThan(order[1]!);
     expect(order[1]).toBeLessThan(order[2]!);
-    expect(body).toContain(fmt(2.25, 3));
+    // One rule for the column (largest 2.25: four significant digits), the same decimals on every row.
+    expect(body).toContain('>' + fmt(2.25, 3) + '<');
+    expect(body).toContain('>' + fmt(1.5, 3) + '<');
   });
 
   it('the heat map is the shared SVG up to 200 sectors and a canvas above, with zoom buttons and a labelled keyboard region', () => {
@@ -56,7 +58,9 @@ describe('components', () => {
     const n = 201;
     const big = render(HeatMap, { props: { title: 'B', unit: 'u', n, values: new Float64Array(n * n).fill(0.01), codes: Array.from({ length: n }, (_, i) => `S${i}`), labels: Array.from({ length: n }, (_, i) => `Sector ${i}`) } }).body;
     expect(big).toContain('<canvas');
-    expect(big).not.toContain('<svg');
+    expect(big.slice(big.indexOf('class="port'), big.indexOf('class="heat-legend'))).not.toContain('<svg');
+    // The colour legend is an SVG of its own outside the zoomed view, so zooming never hides it.
+    expect(big).toMatch(/<div class="heat-legend[^"]*"><!--[^>]*--><svg[^>]*class="rw-chart rw-heat-legend"/);
   });
 
   it('zoom keeps the point under the pointer still; pan is clamped; the pointer finds its cell', () => {

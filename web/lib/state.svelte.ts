@@ -239,7 +239,7 @@ async function setEditedTable(table: PlainTable): Promise<boolean> {
  * what it changed (or throws a message for the user). The edited table is checked again, the
  * edit is logged in the project, and it becomes one step of undo.
  */
-export async function editTable(edit: (t: PlainTable) => Omit<TableEdit, 'at'>): Promise<boolean> {
+export async function editTable(edit: (t: PlainTable) => Omit<TableEdit, 'at'>, then?: () => void): Promise<boolean> {
   if (!app.table) return false;
   const t = structuredClone($state.snapshot(app.table)) as PlainTable;
   let e: Omit<TableEdit, 'at'>;
@@ -251,7 +251,11 @@ export async function editTable(edit: (t: PlainTable) => Omit<TableEdit, 'at'>):
   }
   return record(e.label, async () => {
     const ok = await setEditedTable(t);
-    if (ok) app.edits = [...app.edits, { ...e, at: new Date().toISOString() }];
+    if (ok) {
+      app.edits = [...app.edits, { ...e, at: new Date().toISOString() }];
+      // Changes that follow the edit (a renamed code in the scenarios) belong to the same undo step.
+      then?.();
+    }
     return ok;
   });
 }

@@ -7,8 +7,10 @@ import { scaleLinear } from 'd3';
 import type { Chart } from './svg';
 import { clip, el, escapeXml, labelWidth, svgRoot, text } from './svg';
 import type { Formatter } from './format';
-import { numberFormat } from './format';
-import { AXIS, GRID, INK, SERIES_COLOURS } from './palette';
+import { groupOf } from './format';
+import type { LegendItem } from './parts';
+import { AXIS_ROOM, TITLE_ROOM, axisTitle, legend, valueAxis, verticalTitle } from './parts';
+import { INK, SERIES_COLOURS } from './palette';
 
 export interface BandsInput {
   title: string;
@@ -28,11 +30,14 @@ export interface BandsInput {
   keepOrder?: boolean;
   width?: number;
   format?: Formatter;
+  /** The value axis's title, before the unit (default `Value`). */
+  valueTitle?: string;
+  /** The category axis's title (default `Sector`). */
+  categoryTitle?: string;
 }
 
 export function percentileBands(input: BandsInput): Chart {
   const { categories, low, mid, high } = input;
-  const fmt = input.format ?? numberFormat();
   const width = input.width ?? 720;
   const limit = input.limit ?? 30;
   const lowL = input.lowLabel ?? '5th percentile';
@@ -42,11 +47,11 @@ export function percentileBands(input: BandsInput): Chart {
   let order = categories.map((_, i) => i).filter((i) => Number.isFinite(low[i]!) && Number.isFinite(high[i]!));
   if (!input.keepOrder) order.sort((a, b) => (mid[b] ?? 0) - (mid[a] ?? 0));
   order = order.slice(0, limit);
-  const labelW = labelWidth(order.map((i) => categories[i]!), 30);
+  const labelW = TITLE_ROOM + labelWidth(order.map((i) => categories[i]!), 30);
   const right = 90;
   const top = 46;
   const rowH = 20;
-  const height = top + order.length * rowH + 30;
+  const height = top + order.length * rowH + AXIS_ROOM;
   let lo = Infinity;
   let hi = -Infinity;
   for (const i of order) {
@@ -70,19 +75,12 @@ export function percentileBands(input: BandsInput): Chart {
   const cMid = SERIES_COLOURS[0]!;
   const cPoint = SERIES_COLOURS[5]!;
   const parts: string[] = [];
-  parts.push(el('rect', { x: labelW, y: 10, width: 24, height: 8, fill: cBand }));
-  parts.push(text({ x: labelW + 28, y: 18, fill: INK }, `${lowL} to ${highL}`));
-  const mx = labelW + 40 + (lowL.length + highL.length + 4) * 6.6;
-  parts.push(el('rect', { x: mx, y: 7, width: 3, height: 14, fill: cMid }));
-  parts.push(text({ x: mx + 8, y: 18, fill: INK }, midL));
-  const px = mx + 20 + midL.length * 6.6;
-  parts.push(el('circle', { cx: px + 4, cy: 14, r: 4, fill: cPoint }));
-  parts.push(text({ x: px + 12, y: 18, fill: INK }, pointL));
-  for (const t of x.ticks(6)) {
-    parts.push(el('line', { x1: x(t), x2: x(t), y1: top - 6, y2: height - 26, stroke: GRID }));
-    parts.push(text({ x: x(t), y: height - 12, 'text-anchor': 'middle', fill: AXIS, 'font-size': 11 }, fmt(t)));
-  }
-  parts.push(text({ x: width - right, y: 36, 'text-anchor': 'end', fill: AXIS, 'font-size': 11 }, input.unit));
+  const fmt = groupOf(input.format, order.flatMap((i) => [low[i]!, mid[i]!, high[i]!, input.point?.[i] ?? 0]));
+  const keys: LegendItem[] = [{ label: `${lowL} to ${highL}`, colour: cBand }, { label: midL, colour: cMid, shape: 'line' }];
+  if (input.point) keys.push({ label: pointL, colour: cPoint, shape: 'dot' });
+  parts.push(legend(keys, labelW));
+  parts.push(valueAxis(x, top, height, axisTitle(input.valueTitle ?? 'Value', input.unit), input.format));
+  parts.push(verticalTitle(input.categoryTitle ?? 'Sector', top, height - AXIS_ROOM));
   order.forEach((i, r) => {
     const y = top + r * rowH;
     const name = categories[i]!;

@@ -7,9 +7,9 @@ import { scaleLinear } from 'd3';
 import type { Chart } from './svg';
 import { clip, el, escapeXml, labelWidth, svgRoot, text } from './svg';
 import type { Formatter } from './format';
-import { numberFormat } from './format';
+import { groupOf } from './format';
 import { AXIS, INK, SERIES_COLOURS } from './palette';
-import { legend, valueAxis } from './parts';
+import { AXIS_ROOM, TITLE_ROOM, axisTitle, legend, valueAxis, verticalTitle } from './parts';
 
 export interface BarSeries {
   label: string;
@@ -28,23 +28,26 @@ export interface GroupedBarsInput {
   keepOrder?: boolean;
   width?: number;
   format?: Formatter;
+  /** The value axis's title, before the unit (default `Value`). */
+  valueTitle?: string;
+  /** The category axis's title (default `Sector`). */
+  categoryTitle?: string;
 }
 
 export function groupedBars(input: GroupedBarsInput): Chart {
   const { title, unit, categories, series } = input;
-  const fmt = input.format ?? numberFormat();
   const width = input.width ?? 720;
   const limit = input.limit ?? 30;
   const first = series[0]?.values ?? [];
   let order = categories.map((_, i) => i);
   if (!input.keepOrder) order.sort((a, b) => (first[b] ?? 0) - (first[a] ?? 0));
   order = order.slice(0, limit);
-  const labelW = labelWidth(order.map((i) => categories[i]!), 30);
+  const labelW = TITLE_ROOM + labelWidth(order.map((i) => categories[i]!), 30);
   const right = 60;
   const top = 46;
   const barH = 12;
   const groupH = series.length * barH + 8;
-  const height = top + order.length * groupH + 30;
+  const height = top + order.length * groupH + AXIS_ROOM;
   let lo = Math.min(0, input.reference ?? 0);
   let hi = input.reference ?? 0;
   for (const s of series) {
@@ -61,7 +64,9 @@ export function groupedBars(input: GroupedBarsInput): Chart {
   const x = scaleLinear().domain([lo, hi]).nice().range([labelW + (lo < 0 ? 48 : 0), width - right]);
   const parts: string[] = [];
   parts.push(legend(series, labelW));
-  parts.push(valueAxis(x, top, height, unit, fmt));
+  const fmt = groupOf(input.format, series.flatMap((s) => order.map((i) => s.values[i] ?? 0)));
+  parts.push(valueAxis(x, top, height, axisTitle(input.valueTitle ?? 'Value', unit), input.format));
+  parts.push(verticalTitle(input.categoryTitle ?? 'Sector', top, height - AXIS_ROOM));
   order.forEach((i, r) => {
     const y0 = top + r * groupH;
     parts.push(text({ x: labelW - 8, y: y0 + (series.length * barH) / 2 + 4, 'text-anchor': 'end', fill: INK }, clip(categories[i]!, 30)));
@@ -78,7 +83,7 @@ export function groupedBars(input: GroupedBarsInput): Chart {
   });
   if (input.reference !== undefined) {
     const rx = x(input.reference);
-    parts.push(el('line', { x1: rx, x2: rx, y1: top - 6, y2: height - 26, stroke: AXIS, 'stroke-dasharray': '4 3' }));
+    parts.push(el('line', { x1: rx, x2: rx, y1: top - 6, y2: height - AXIS_ROOM + 4, stroke: AXIS, 'stroke-dasharray': '4 3' }));
   }
   const shown = order.length < categories.length ? ` The top ${order.length} of ${categories.length} are shown.` : '';
   return svgRoot(width, height, title, `Bars of ${series.map((s) => s.label).join(' and ')} by category, in ${unit}.${shown}`, parts.join(''));

@@ -10,7 +10,7 @@ import { InputError } from '../../../engine/errors';
 import type { Chart } from './svg';
 import { clip, el, escapeXml, round, svgRoot, text } from './svg';
 import type { Formatter } from './format';
-import { numberFormat } from './format';
+import { groupOf, numberFormat } from './format';
 import { AXIS, INK } from './palette';
 
 export interface HeatMapInput {
@@ -34,6 +34,52 @@ export interface HeatMapInput {
   /** A tooltip (SVG title) on each cell when there are at most 3600 cells (default true). */
   titles?: boolean;
   format?: Formatter;
+  /** Draw the colour legend under the grid (default true; the workbench draws it outside its zoomed view with `heatLegend`). */
+  legend?: boolean;
+}
+
+export interface HeatLegendInput {
+  /** The top of the scale (the largest absolute value). */
+  max: number;
+  unit: string;
+  negatives?: boolean;
+  /** Width of the colour ramp (default 240). */
+  width?: number;
+  format?: Formatter;
+}
+
+/** The note under the ramp: what the colours mean. */
+export function heatNote(unit: string, negatives: boolean): string {
+  return `${unit}; square-root colour scale; empty cells are zero${negatives ? '; negative values in orange' : ''}`;
+}
+
+/** The colour legend's parts at (x, y): the ramp from 0 to max with values at 0, a quarter and the top, and the note. */
+function legendParts(x: number, y: number, input: HeatLegendInput, id: string): string[] {
+  const { max } = input;
+  const fmt = groupOf(input.format, [max]);
+  const lw = input.width ?? 240;
+  const stops: string[] = [];
+  for (let k = 0; k <= 10; k++) stops.push(el('stop', { offset: `${k * 10}%`, 'stop-color': heatColour(Math.max(1e-12, (k / 10) ** 2 * max), max) || '#ffffff' }));
+  const parts: string[] = [];
+  parts.push(el('defs', {}, el('linearGradient', { id, x1: 0, x2: 1, y1: 0, y2: 0 }, ...stops)));
+  parts.push(el('rect', { x, y, width: lw, height: 10, fill: `url(#${id})`, stroke: AXIS, 'stroke-width': 0.5 }));
+  for (const f of [0, 0.25, 1]) {
+    parts.push(text({ x: x + Math.sqrt(f) * lw, y: y + 24, 'text-anchor': f === 0 ? 'start' : f === 1 ? 'end' : 'middle', fill: AXIS, 'font-size': 10 }, fmt(f * max)));
+  }
+  if (input.negatives) {
+    parts.push(el('rect', { x: x + lw + 12, y, width: 10, height: 10, fill: heatColour(-max, max), stroke: AXIS, 'stroke-width': 0.5 }));
+    parts.push(text({ x: x + lw + 26, y: y + 9, fill: AXIS, 'font-size': 10 }, 'negative'));
+  }
+  parts.push(text({ x, y: y + 40, fill: AXIS, 'font-size': 10 }, heatNote(input.unit, !!input.negatives)));
+  return parts;
+}
+
+/** The heat map's colour legend as an SVG of its own (the same scale and words as the chart's). */
+export function heatLegend(input: HeatLegendInput): Chart {
+  const note = heatNote(input.unit, !!input.negatives);
+  const width = Math.max((input.width ?? 240) + (input.negatives ? 90 : 8), note.length * 5.6 + 8);
+  const id = `hl${Math.round(input.max * 1e6).toString(36)}`;
+  return svgRoot(width, 48, 'Colour scale', `Colours from 0 to ${(input.format ?? numberFormat())(input.max)} ${input.unit} on a square-root scale.`, legendParts(2, 2, input, id).join(''), 'rw-chart rw-heat-legend');
 }
 
 export interface HeatMapChart extends Chart {
@@ -83,10 +129,11 @@ export function heatMap(input: HeatMapInput): HeatMapChart {
     if (v === 0) zeros++;
     max = Math.max(max, Math.abs(v));
   }
-  const note = `${input.unit}; square-root colour scale; empty cells are zero${negatives ? '; negative values in orange' : ''}`;
+  const showLegend = input.legend ?? true;
+  const note = showLegend ? heatNote(input.unit, negatives > 0) : '';
   // Room for the grid and for the legend's note (about 5.6 pixels a character at 10 pixels).
   const width = Math.max(gx + gridW + 16, gx + note.length * 5.6 + 16, 320);
-  const height = gy + gridH + 70;
+  const height = gy + gridH + (showLegend ? 70 : 8);
   const parts: string[] = [];
   parts.push(el('rect', { x: gx, y: gy, width: gridW, height: gridH, fill: 'none', stroke: AXIS, 'stroke-width': 0.5, class: 'rw-grid' }));
   const titles = (input.titles ?? true) && rows * cols <= 3600;
@@ -116,14 +163,7 @@ export function heatMap(input: HeatMapInput): HeatMapChart {
   const ly = gy + gridH + 24;
   const lw = Math.min(240, Math.max(120, gridW));
   const id = `hm${Math.round(max * 1e6).toString(36)}${rows}x${cols}`;
-  const stops: string[] = [];
-  for (let k = 0; k <= 10; k++) stops.push(el('stop', { offset: `${k * 10}%`, 'stop-color': heatColour(Math.max(1e-12, (k / 10) ** 2 * max), max) || '#ffffff' }));
-  parts.push(el('defs', {}, el('linearGradient', { id, x1: 0, x2: 1, y1: 0, y2: 0 }, ...stops)));
-  parts.push(el('rect', { x: gx, y: ly, width: lw, height: 10, fill: `url(#${id})`, stroke: AXIS, 'stroke-width': 0.5 }));
-  for (const f of [0, 0.25, 1]) {
-    parts.push(text({ x: gx + Math.sqrt(f) * lw, y: ly + 24, 'text-anchor': f === 0 ? 'start' : f === 1 ? 'end' : 'middle', fill: AXIS, 'font-size': 10 }, fmt(f * max)));
-  }
-  parts.push(text({ x: gx, y: ly + 40, fill: AXIS, 'font-size': 10 }, note));
+  if (showLegend) parts.push(...legendParts(gx, ly, { max, unit: input.unit, negatives: negatives > 0, width: lw, format: input.format }, id));
   const desc =
     `Heat map of ${rows} × ${cols} values (${input.unit}), largest ${fmt(max)}; ${zeros} cell${zeros === 1 ? ' is' : 's are'} zero` +
     (negatives ? `, ${negatives} negative` : '') +

@@ -9,3 +9,5 @@ export * from './tornado';
 export * from './histogram';
 export * from './heatmap';
 export * from './bands';
+export * from './labels';
+export * from './parts';

@@ -7,9 +7,9 @@ import { scaleLinear } from 'd3';
 import type { Chart } from './svg';
 import { clip, el, escapeXml, labelWidth, svgRoot, text } from './svg';
 import type { Formatter } from './format';
-import { numberFormat } from './format';
+import { groupOf } from './format';
 import { INK, SERIES_COLOURS } from './palette';
-import { legend, valueAxis } from './parts';
+import { AXIS_ROOM, TITLE_ROOM, axisTitle, legend, valueAxis, verticalTitle } from './parts';
 
 export interface StackedSeries {
   key: string;
@@ -28,11 +28,14 @@ export interface StackedBarsInput {
   limit?: number;
   width?: number;
   format?: Formatter;
+  /** The value axis's title, before the unit (default `Impact`). */
+  valueTitle?: string;
+  /** The category axis's title (default `Sector`). */
+  categoryTitle?: string;
 }
 
 export function stackedBars(input: StackedBarsInput): Chart {
   const { title, unit, categories, series } = input;
-  const fmt = input.format ?? numberFormat();
   const width = input.width ?? 720;
   const limit = input.limit ?? 20;
   const totals = categories.map((_, i) => series.reduce((s, se) => s + (se.values[i] ?? 0), 0));
@@ -40,12 +43,12 @@ export function stackedBars(input: StackedBarsInput): Chart {
     .map((_, i) => i)
     .sort((a, b) => Math.abs(totals[b]!) - Math.abs(totals[a]!))
     .slice(0, limit);
-  const labelW = labelWidth(order.map((i) => categories[i]!), 30);
+  const labelW = TITLE_ROOM + labelWidth(order.map((i) => categories[i]!), 30);
   const right = 70;
   const top = 46;
   const barH = 18;
   const gap = 6;
-  const height = top + order.length * (barH + gap) + 30;
+  const height = top + order.length * (barH + gap) + AXIS_ROOM;
   let lo = 0;
   let hi = 0;
   for (const i of order) {
@@ -64,7 +67,10 @@ export function stackedBars(input: StackedBarsInput): Chart {
   const x = scaleLinear().domain([lo, hi]).nice().range([labelW + (lo < 0 ? 48 : 0), width - right]);
   const parts: string[] = [];
   parts.push(legend(series, labelW));
-  parts.push(valueAxis(x, top, height, unit, fmt));
+  // One format for the bars' values (their totals and segments), one rule for every chart.
+  const fmt = groupOf(input.format, [...order.map((i) => totals[i]!), ...series.flatMap((s) => order.map((i) => s.values[i] ?? 0))]);
+  parts.push(valueAxis(x, top, height, axisTitle(input.valueTitle ?? 'Impact', unit), input.format));
+  parts.push(verticalTitle(input.categoryTitle ?? 'Sector', top, height - AXIS_ROOM));
   order.forEach((i, r) => {
     const y = top + r * (barH + gap);
     parts.push(text({ x: labelW - 8, y: y + barH - 5, 'text-anchor': 'end', fill: INK }, clip(categories[i]!, 30)));

@@ -7,9 +7,9 @@ import { scaleLinear } from 'd3';
 import type { Chart } from './svg';
 import { clip, el, escapeXml, labelWidth, svgRoot, text } from './svg';
 import type { Formatter } from './format';
-import { numberFormat } from './format';
+import { groupOf } from './format';
 import { INK, SERIES_COLOURS } from './palette';
-import { legend, valueAxis } from './parts';
+import { AXIS_ROOM, TITLE_ROOM, axisTitle, legend, valueAxis, verticalTitle } from './parts';
 
 export interface TornadoItem {
   label: string;
@@ -27,18 +27,21 @@ export interface TornadoInput {
   highLabel?: string;
   width?: number;
   format?: Formatter;
+  /** The value axis's title, before the unit (default `Result`). */
+  valueTitle?: string;
+  /** The category axis's title (default `Coefficient moved`). */
+  categoryTitle?: string;
 }
 
 export function tornado(input: TornadoInput): Chart {
-  const fmt = input.format ?? numberFormat();
   const width = input.width ?? 720;
   const items = [...input.items].sort((a, b) => Math.abs(b.high - b.low) - Math.abs(a.high - a.low));
-  const labelW = labelWidth(items.map((it) => it.label), 36);
+  const labelW = TITLE_ROOM + labelWidth(items.map((it) => it.label), 36);
   const right = 70;
   const top = 46;
   const barH = 18;
   const gap = 6;
-  const height = top + items.length * (barH + gap) + 30;
+  const height = top + items.length * (barH + gap) + AXIS_ROOM;
   let lo = input.base;
   let hi = input.base;
   for (const it of items) {
@@ -53,8 +56,10 @@ export function tornado(input: TornadoInput): Chart {
   const cLow = SERIES_COLOURS[0]!;
   const cHigh = SERIES_COLOURS[5]!;
   const parts: string[] = [];
-  parts.push(legend([{ label: input.lowLabel ?? 'Input at its low value', colour: cLow }, { label: input.highLabel ?? 'Input at its high value', colour: cHigh }], labelW));
-  parts.push(valueAxis(x, top, height, input.unit, fmt));
+  const fmt = groupOf(input.format, [input.base, ...items.flatMap((it) => [it.low, it.high])]);
+  parts.push(legend([{ label: input.lowLabel ?? 'Input at its low value', colour: cLow }, { label: input.highLabel ?? 'Input at its high value', colour: cHigh }, { label: `Base result ${fmt(input.base)}`, colour: INK, shape: 'line' }], labelW));
+  parts.push(valueAxis(x, top, height, axisTitle(input.valueTitle ?? 'Result', input.unit), input.format));
+  parts.push(verticalTitle(input.categoryTitle ?? 'Coefficient moved', top, height - AXIS_ROOM));
   items.forEach((it, r) => {
     const y = top + r * (barH + gap);
     parts.push(text({ x: labelW - 8, y: y + barH - 5, 'text-anchor': 'end', fill: INK }, clip(it.label, 36)));
@@ -64,6 +69,6 @@ export function tornado(input: TornadoInput): Chart {
       parts.push(el('rect', { x: a, y, width: Math.max(0.5, b - a), height: barH, fill: c }, el('title', {}, escapeXml(`${it.label}: ${w} ${fmt(v)} ${input.unit}`))));
     }
   });
-  parts.push(el('line', { x1: x(input.base), x2: x(input.base), y1: top - 6, y2: height - 26, stroke: INK }));
+  parts.push(el('line', { x1: x(input.base), x2: x(input.base), y1: top - 6, y2: height - AXIS_ROOM + 4, stroke: INK }));
   return svgRoot(width, height, input.title, `Tornado of ${items.length} inputs around the base result ${fmt(input.base)} ${input.unit}.`, parts.join(''));
 }

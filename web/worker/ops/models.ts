@@ -17,7 +17,7 @@ import {
   moneyUnit,
   sectorIndex,
 } from '../../../engine/index';
-import type { Finding, HouseholdOptions, Measure, MeasureInfo, Models, Table } from '../../../engine/index';
+import type { Finding, HouseholdOptions, LeontiefModel, Measure, MeasureInfo, Models, Table } from '../../../engine/index';
 import type { HandlerContext } from '../context';
 import { cached, current, openModel } from './session';
 
@@ -72,11 +72,11 @@ function choiceKey(h: HouseholdChoice | undefined): string {
  * `household.problem`; it never fails the whole request.
  */
 export function analysisModels(choice: HouseholdChoice | undefined): AnalysisModels {
-  return cached(`analysis:${choiceKey(choice)}`, (s) => build(s.table, choice ?? 'guess'));
+  return cached(`analysis:${choiceKey(choice)}`, (s) => analysisFor(s.table, choice ?? 'guess', openModel()));
 }
 
-function build(table: Table, choice: HouseholdChoice): AnalysisModels {
-  const open = openModel();
+/** The models and measures of any table (another project's, for a comparison) from its open model, not cached. */
+export function analysisFor(table: Table, choice: HouseholdChoice, open: LeontiefModel): AnalysisModels {
   const models: Models = { table, open };
   const info: HouseholdInfo = { about: HOUSEHOLD_ABOUT, used: false, choice: typeof choice === 'string' ? choice : 'custom', findings: [] };
   let options: HouseholdOptions | undefined;

@@ -1,8 +1,33 @@
 /** Operations on the current table itself. */
-import { coefficients, LeontiefModel, makeTable } from '../../../engine/index';
+import { coefficients, LeontiefModel, makeTable, moneyUnit, multipliers } from '../../../engine/index';
 import type { PlainTable } from '../../../engine/index';
 import type { Handler } from '../context';
 import { current, openModel, setTable } from './session';
+import { analysisFor, analysisModels } from './models';
+import type { HouseholdChoice } from './models';
+
+/** One table's multipliers of every measure, for a comparison (plain arrays: small, copied). */
+export interface CompareSide {
+  codes: string[];
+  labels: string[];
+  moneyUnit: string;
+  /** Whether Type II and total multipliers exist, and if not why. */
+  household: { used: boolean; problem?: string };
+  measures: { code: string; label: string; unit: string; simple: number[]; typeI: number[]; total?: number[]; typeII?: number[] }[];
+}
+
+function side(a: ReturnType<typeof analysisModels>): CompareSide {
+  const t = a.models.table;
+  const list = multipliers(a.models, a.measures);
+  const arr = (v: Float64Array | undefined) => (v ? Array.from(v) : undefined);
+  return {
+    codes: [...t.sectors.codes],
+    labels: [...t.sectors.labels],
+    moneyUnit: moneyUnit(t.meta),
+    household: a.household.problem ? { used: a.household.used, problem: a.household.problem } : { used: a.household.used },
+    measures: list.map((m, k) => ({ code: a.measures[k]!.code, label: a.measures[k]!.label, unit: m.unit, simple: Array.from(m.simple), typeI: Array.from(m.typeI), total: arr(m.total), typeII: arr(m.typeII) })),
+  };
+}
 
 export const tableOps: Record<string, Handler> = {
   /** Make a plain table the current one; returns its findings. */
@@ -40,6 +65,16 @@ export const tableOps: Record<string, Handler> = {
       current: { codes: [...s.table.sectors.codes], labels: [...s.table.sectors.labels], values: om(openModel()) },
       other: { codes: [...other.sectors.codes], labels: [...other.sectors.labels], values: om(LeontiefModel.fromTable(other)) },
     };
+  },
+
+  /**
+   * Multipliers of every measure (simple, Type I and, with a household closure, total and Type II)
+   * of the current table and of another one (another project's), each with its own household
+   * choice, without changing the current table.
+   */
+  'compare-all': (args: { other: PlainTable; household?: HouseholdChoice; otherHousehold?: HouseholdChoice }) => {
+    const other = makeTable(args.other);
+    return { current: side(analysisModels(args.household ?? 'guess')), other: side(analysisFor(other, args.otherHousehold ?? 'guess', LeontiefModel.fromTable(other))) };
   },
 
   /** The technical coefficients A, for the heat map (the buffer is transferred, not copied). */
