@@ -9,7 +9,7 @@ import { mkdirSync, rmSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import { buildSite, chromiumPath, launch, REPO, serveSite } from '../test/e2e/helpers';
 
-const STEPS = ['Projects', 'Checks', 'Edit table', 'Coefficients', 'Leontief inverse', 'Multipliers', 'Linkages', 'Scenarios', 'Results', 'Sensitivity', 'Compare projects', 'Report', 'Open'];
+const STEPS = ['Projects', 'Checks', 'Edit table', 'Regionalise', 'Balance', 'Coefficients', 'Leontief inverse', 'Multipliers', 'Linkages', 'Scenarios', 'Results', 'Sensitivity', 'Compare projects', 'Report', 'Open'];
 const WIDTHS = [1440, 800];
 
 async function main(): Promise<void> {
