@@ -5,12 +5,11 @@
  * `regional-values.ts` (no Node imports: the workbench's worker uses the same code); this file
  * reads the files from the command line's inputs.
  */
-import type { Finding } from '../../engine/findings';
-import type { BasisKind, RegionalMethod, Regionalised } from '../../engine/regional/index';
+import type { BasisKind, RegionalMethod } from '../../engine/regional/index';
 import { BASIS_KINDS, REGIONAL_METHODS } from '../../engine/regional/index';
 import type { Axis, Table } from '../../engine/table';
 import { readConcordanceGrid, readConcordanceJson, readGrid } from '../io/index';
-import type { ReportInputFile, ReportSetting } from '../report/model';
+import type { ReportInputFile } from '../report/model';
 import { numberOption } from './common';
 import type { CliContext } from './context';
 import { UsageError } from './errors';
@@ -18,7 +17,7 @@ import { readInput, reportInput } from './files';
 import type { InputFile } from './files';
 import { sheetOption } from './table-input';
 import { regionalFromValues, valuesFromGrid } from './regional-values';
-import type { BasisChoice, ValuesRead } from './regional-values';
+import type { RegionalEstimate, ValuesRead } from './regional-values';
 
 export { valuesFromGrid, pickColumn, chooseBasis, regionalSettings, regionalFromValues } from './regional-values';
 export type { ValueColumn, ValuesRead, BasisChoice } from './regional-values';
@@ -72,19 +71,12 @@ export function regionalChoices(f: RegionalFlags): { method: RegionalMethod; kin
   return { method, kind, delta };
 }
 
-export interface RegionalRun {
+/** A regionalisation from the options (`findings` also holds the reader's). */
+export interface RegionalRun extends RegionalEstimate {
   method: RegionalMethod;
   kind: BasisKind;
   delta: number | undefined;
   read: ValuesRead;
-  choice: BasisChoice;
-  result: Regionalised;
-  /** Output multipliers of the national and the regional table. */
-  national: Float64Array;
-  regional: Float64Array;
-  /** The reader's, the basis's and the regionalisation's findings, and the regional table's checks. */
-  findings: Finding[];
-  settings: ReportSetting[];
   /** The regional file (and concordance) as report inputs. */
   inputs: ReportInputFile[];
 }

@@ -150,11 +150,14 @@ export async function loadSweep(ctx: CliContext, planName: string): Promise<Load
     inputs.push({ role: `table:${pt.name}`, name: pt.file, sha256: loaded.file.sha256 });
     for (const x of loaded.extra) inputs.push({ role: `${x.role}:${pt.name}`, name: pt.mapping ?? basename(x.file.name), sha256: x.file.sha256 });
     const national = loaded.table;
-    let read: Awaited<ReturnType<typeof readValues>> | undefined;
+    // A regional table: its file read and its basis chosen once, then regionalised for each δ.
+    let regional: { basis: ReturnType<typeof chooseBasis>['basis']; source: { file: string; sha256: string } } | undefined;
     if (pt.regional) {
       const r = pt.regional;
-      read = await readValues(ctx, at(r.file), 'regional file', national.sectors, r.sheet !== undefined ? { sheet: r.sheet } : {});
+      const read = await readValues(ctx, at(r.file), 'regional file', national.sectors, r.sheet !== undefined ? { sheet: r.sheet } : {});
       inputs.push({ role: `regional:${pt.name}`, name: r.file, sha256: read.file.sha256 });
+      const choice = chooseBasis(national, read, r.basis, { ...(r.regionalColumn ? { regionalColumn: r.regionalColumn } : {}), ...(r.nationalColumn ? { nationalColumn: r.nationalColumn } : {}), ...(r.region ? { name: r.region } : {}) });
+      regional = { basis: choice.basis, source: { file: basename(r.file), sha256: read.file.sha256 } };
     }
     const resolved: ResolvedScenario[] = [];
     const names: { set: number; name: string }[] = [];
@@ -175,12 +178,7 @@ export async function loadSweep(ctx: CliContext, planName: string): Promise<Load
       }
     }
     for (const v of tableVariants(plan).filter((x) => x.table === ti)) {
-      let t = national;
-      if (pt.regional && read) {
-        const r = pt.regional;
-        const choice = chooseBasis(national, read, r.basis, { ...(r.regionalColumn ? { regionalColumn: r.regionalColumn } : {}), ...(r.nationalColumn ? { nationalColumn: r.nationalColumn } : {}), ...(r.region ? { name: r.region } : {}) });
-        t = regionalise(national, choice.basis, { method: r.method, ...(v.delta !== undefined ? { delta: v.delta } : {}), source: { file: basename(r.file), sha256: read.file.sha256 } }).table;
-      }
+      const t = pt.regional && regional ? regionalise(national, regional.basis, { method: pt.regional.method, ...(v.delta !== undefined ? { delta: v.delta } : {}), source: regional.source }).table : national;
       const prepared = plan.household.map((h) => {
         const p = prepareModels(t, modelFlags(plan, pt, h));
         if (h !== 'off' && p.closure !== 'closed') {
