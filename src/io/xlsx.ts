@@ -6,8 +6,8 @@
  * grid's typed rows, counting cells against the limit, so a sheet of hundreds of megabytes never
  * becomes one string. exceljs stays for writing (`loadExcel`) and for callers of `openWorkbook`.
  *
- * A sheet is chosen by name or by 1-based index (default: the first sheet whose first 200 rows
- * hold a table of numbers, else the first with cells). Formula cells give their saved values,
+ * A sheet is chosen by name or by 1-based index (default: by content, sheet-choice.ts, over each
+ * sheet's first 400 rows; else the first that holds a table of numbers, else the first with cells). Formula cells give their saved values,
  * with a `formula-cells` note giving their count; a formula with no saved value reads as its
  * text (`=SUM(...)`) so that a data cell holding one is reported. Merged cells keep their value
  * in the top-left cell and are listed as merges. Numbers stored as text are read as numbers
@@ -566,9 +566,6 @@ function hasCells(rows: readonly GridRow[]): boolean {
   return rows.some((r) => r.kinds.length > 0);
 }
 
-/** Rows looked at to choose a sheet. */
-const CHOOSE_ROWS = 200;
-
 /** Read one sheet of an XLSX workbook into a grid. */
 export async function readXlsx(bytes: Uint8Array, options: XlsxOptions): Promise<XlsxRead> {
   const { file } = options;
@@ -585,9 +582,10 @@ export async function readXlsx(bytes: Uint8Array, options: XlsxOptions): Promise
   const peeked = new Map<XlsxSheetInfo, SheetScan>();
   if (want === undefined) {
     // The first sheet that looks like a table (rows with several numbers), else the first with cells:
-    // agency workbooks often open with a contents or notes sheet. Each is looked at over its first rows only.
-    // By content first (sheet-choice.ts): the sheet whose header row and lead column share most codes.
-    const peek = { ...options, maxRows: Math.min(Math.max(CHOOSE_ROWS, BODY_ROWS), options.maxRows ?? Infinity) };
+    // agency workbooks often open with a contents or notes sheet. Each is looked at over its first
+    // BODY_ROWS rows only. By content first (sheet-choice.ts): the sheet whose header row and lead
+    // column share most codes.
+    const peek = { ...options, maxRows: Math.min(BODY_ROWS, options.maxRows ?? Infinity) };
     const look = (s: XlsxSheetInfo) => {
       let scan = peeked.get(s);
       if (!scan) peeked.set(s, (scan = scanSheet(pkg, s, sst, dates, peek, limits)));
