@@ -16,8 +16,12 @@ export interface LoadedScenarios {
   resolved: ResolvedScenario[];
 }
 
-/** Read scenarios (all, or those named), check each against the table, resolve their demand vectors. */
-export async function loadScenarios(ctx: CliContext, name: string, t: Table, only?: string[]): Promise<LoadedScenarios> {
+/**
+ * Read scenarios (all, or those named), check each against the table, resolve their demand vectors.
+ * `holdsResults: false` (a sweep, which streams each unit's results to disk) leaves out the limit on
+ * scenarios × sectors, which bounds the results a command holds in memory.
+ */
+export async function loadScenarios(ctx: CliContext, name: string, t: Table, only?: string[], o: { holdsResults?: boolean } = {}): Promise<LoadedScenarios> {
   const file = await readInput(ctx, name, 'scenario');
   const all = readScenarios(new TextDecoder('utf-8').decode(file.bytes), name);
   let chosen = all;
@@ -28,7 +32,7 @@ export async function loadScenarios(ctx: CliContext, name: string, t: Table, onl
       return s;
     });
   }
-  checkScenarioCells(chosen.length, t.sectors.codes.length, name);
+  if (o.holdsResults !== false) checkScenarioCells(chosen.length, t.sectors.codes.length, name);
   const problems: string[] = [];
   for (const s of chosen) for (const f of checkScenario(t, s)) problems.push(f.message);
   if (problems.length) {

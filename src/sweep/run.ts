@@ -162,7 +162,7 @@ export async function loadSweep(ctx: CliContext, planName: string): Promise<Load
     const resolved: ResolvedScenario[] = [];
     const names: { set: number; name: string }[] = [];
     for (const [si, ps] of plan.scenarios.entries()) {
-      const sc = await loadScenarios(ctx, at(ps.file), national, ps.names);
+      const sc = await loadScenarios(ctx, at(ps.file), national, ps.names, { holdsResults: false });
       if (ti === 0) inputs.push({ role: `scenarios:${si + 1}`, name: ps.file, sha256: sc.file.sha256 });
       sc.resolved.forEach((r) => {
         resolved.push(r);

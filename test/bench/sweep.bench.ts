@@ -76,5 +76,6 @@ if (process.env.SWEEP_BENCH_IMPACT !== '0') {
 for (const x of [s1, s2, m]) if (x.status !== 'ok') console.log(x.stderr);
 table(['run', 'seconds', 'peak MB', 'output MB', 'status'], rows);
 const peak = Math.max(s1.peakMB ?? Infinity, s2.peakMB ?? Infinity);
-console.log(`target: peak memory of each shard ≤ 1024 MB: ${peak <= 1024 ? 'met' : peak === Infinity ? 'not measured (no /usr/bin/time)' : 'missed'} (${Number.isFinite(peak) ? peak.toFixed(0) : 'n/a'} MB)`);
+const ran = s1.status === 'ok' && s2.status === 'ok';
+console.log(`target: peak memory of each shard ≤ 1024 MB: ${!ran ? 'not measured (a shard failed)' : peak <= 1024 ? 'met' : peak === Infinity ? 'not measured (no /usr/bin/time)' : 'missed'} (${Number.isFinite(peak) ? peak.toFixed(0) : 'n/a'} MB)`);
 rmSync(dir, { recursive: true, force: true });

@@ -137,6 +137,21 @@ describe('shards and merge', () => {
     expect(report.cautions.join(' ')).toMatch(/fixed coefficients/i);
   });
 
+  it('runs past the limit on scenarios × sectors that a single impact run holds (a sweep streams its results)', async () => {
+    const f = sweepFolder();
+    const env = { RIPPLEWISE_LIMITS: 'maxScenarioCells=4' }; // 3 scenarios × 2 sectors = 6
+    const im = await run(['impact', f.table, '--scenario', f.scenarios, '--no-household', '--json'], { env });
+    expect(im.code).toBe(2);
+    expect(im.stderr).toMatch(/over the limit of 4.*maxScenarioCells.*a sweep/s);
+    const sw = await run(['sweep', f.plan, '--out', join(f.dir, 'r'), '--shard', '1/1'], { env });
+    expect(sw.code, sw.stderr).toBe(0);
+    const m = await run(['sweep', 'merge', join(f.dir, 'r'), '--out', join(f.dir, 'all.parquet')], { env });
+    expect(m.code, m.stderr).toBe(0);
+    let rows = 0;
+    for await (const g of readResults(join(f.dir, 'all.parquet'))) rows += g.length;
+    expect(rows).toBe(UNITS * 2 * 4 * 4);
+  });
+
   it('gives the totals of `ripplewise impact --json` for the units without draws', async () => {
     const f = sweepFolder();
     await shards(f.plan, join(f.dir, 'r'), 2);
