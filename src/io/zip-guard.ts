@@ -163,10 +163,15 @@ function expandsPast(file: string, e: ZipEntry): InputError {
   );
 }
 
+/** The first slice of compressed bytes inflated. */
+const FIRST_SLICE = 16 * 1024;
+
 /**
- * Stream one part's bytes to `onChunk`, inflating deflated parts in slices of `slice` compressed
- * bytes; stops with an error as soon as the part produces more than its declared size. The
- * consumer may throw STOP_PART to end early; returns false then, true when the part was read whole.
+ * Stream one part's bytes to `onChunk`, inflating deflated parts in slices of compressed bytes
+ * that start at 16 KiB and double up to `slice`, so a consumer that stops early (a sheet's first
+ * rows, its first cell) inflates little more than it reads; stops with an error as soon as the
+ * part produces more than its declared size. The consumer may throw STOP_PART to end early;
+ * returns false then, true when the part was read whole.
  */
 export function inflatePart(b: Uint8Array, e: ZipEntry, file: string, onChunk: (chunk: Uint8Array) => void, slice = 256 * 1024): boolean {
   const { start, end } = partRange(b, e, file);
@@ -183,8 +188,8 @@ export function inflatePart(b: Uint8Array, e: ZipEntry, file: string, onChunk: (
       if (got > e.size) throw expandsPast(file, e);
       if (chunk.length) onChunk(chunk);
     });
-    for (let p = start; p < end; p += slice) {
-      const q = Math.min(end, p + slice);
+    for (let p = start, step = Math.min(slice, FIRST_SLICE); p < end; p += step, step = Math.min(slice, step * 2)) {
+      const q = Math.min(end, p + step);
       try {
         inf.push(b.subarray(p, q), q === end);
       } catch (x) {
