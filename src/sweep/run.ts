@@ -145,6 +145,7 @@ export async function loadSweep(ctx: CliContext, planName: string): Promise<Load
   const tables: LoadedSweepTable[] = [];
   const entries: TableEntry[] = [];
   let scenarioNames: { set: number; name: string }[] | undefined;
+  const variants = tableVariants(plan);
   for (const [ti, pt] of plan.tables.entries()) {
     const loaded = await checkedTable(ctx, at(pt.file), { ...(pt.sheet !== undefined ? { sheet: pt.sheet } : {}), ...(pt.mapping !== undefined ? { mapping: at(pt.mapping) } : {}) });
     inputs.push({ role: `table:${pt.name}`, name: pt.file, sha256: loaded.file.sha256 });
@@ -177,7 +178,7 @@ export async function loadSweep(ctx: CliContext, planName: string): Promise<Load
         seen.set(s.name, s.set);
       }
     }
-    for (const v of tableVariants(plan).filter((x) => x.table === ti)) {
+    for (const v of variants.filter((x) => x.table === ti)) {
       const t = pt.regional && regional ? regionalise(national, regional.basis, { method: pt.regional.method, ...(v.delta !== undefined ? { delta: v.delta } : {}), source: regional.source }).table : national;
       const prepared = plan.household.map((h) => {
         const p = prepareModels(t, modelFlags(plan, pt, h));

@@ -83,6 +83,39 @@ export async function serveSite(outDir: string, port?: number): Promise<Served> 
   };
 }
 
+/** The built workbench served on 127.0.0.1 with a browser; `close` ends all three and removes the build. */
+export interface Workbench {
+  served: Served;
+  browser: Browser;
+  close(): Promise<void>;
+}
+
+/** Build the workbench, serve it and launch the browser (what every browser test starts with). */
+export async function openWorkbench(executablePath: string, options: Parameters<typeof launch>[1] = {}): Promise<Workbench> {
+  const site = await buildSite();
+  let served: Served | undefined;
+  const remove = async () => {
+    await served?.close();
+    rmSync(site, { recursive: true, force: true });
+  };
+  try {
+    served = await serveSite(site);
+    const browser = await launch(executablePath, options);
+    const s = served;
+    return {
+      served: s,
+      browser,
+      async close() {
+        await browser.close();
+        await remove();
+      },
+    };
+  } catch (e) {
+    await remove();
+    throw e;
+  }
+}
+
 export interface Browser {
   context: BrowserContext;
   page: Page;

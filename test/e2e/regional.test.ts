@@ -17,8 +17,8 @@ import type { Download, Page } from 'playwright-core';
 import { readTableFile, writeTableJson } from '../../src/io/index';
 import { REFERENCE_DIR } from '../helpers/reference';
 import { run } from '../cli/harness';
-import type { Browser, Served } from './helpers';
-import { buildSite, launch, requireChromium, screenshot, serveSite } from './helpers';
+import type { Browser, Served, Workbench } from './helpers';
+import { openWorkbench, requireChromium, screenshot } from './helpers';
 
 const chromium = requireChromium('the regional browser test');
 const DIR = join(REFERENCE_DIR, 'abs-5246-worked-example');
@@ -30,7 +30,7 @@ if (!present) {
 }
 
 describe.skipIf(!chromium || !present)('the workbench in Chromium: Regionalise and Balance', () => {
-  let site: string;
+  let wb: Workbench | undefined;
   let served: Served;
   let b: Browser;
   let page: Page;
@@ -68,16 +68,13 @@ describe.skipIf(!chromium || !present)('the workbench in Chromium: Regionalise a
     const r = await run(['regionalise', tablePath, '--regional', regionalPath, '--method', 'flq', '--json']);
     expect(r.code).toBe(0);
     cli = JSON.parse(r.stdout);
-    site = await buildSite();
-    served = await serveSite(site);
-    b = await launch(chromium!, { width: 1440, height: 900 });
+    wb = await openWorkbench(chromium!, { width: 1440, height: 900 });
+    ({ served, browser: b } = wb);
     page = b.page;
   }, 240_000);
 
   afterAll(async () => {
-    await b?.close();
-    await served?.close();
-    if (site) rmSync(site, { recursive: true, force: true });
+    await wb?.close();
     if (work) rmSync(work, { recursive: true, force: true });
   });
 

@@ -17,8 +17,8 @@ import { buildModels, guessHousehold, makeTable, measures, multipliers, syntheti
 import { numberFormat } from '../../src/report/charts/format';
 import demo from '../../data-demo/vellan-coast.table.json';
 import type { PlainTable } from '../../engine/index';
-import type { Browser, Served } from './helpers';
-import { buildSite, launch, requireChromium, screenshot, serveSite } from './helpers';
+import type { Browser, Served, Workbench } from './helpers';
+import { openWorkbench, requireChromium, screenshot } from './helpers';
 
 const chromium = requireChromium('the views browser test');
 
@@ -26,7 +26,7 @@ const chromium = requireChromium('the views browser test');
 const squash = (s: string | null) => (s ?? '').replace(/\s+/g, ' ').trim();
 
 describe.skipIf(!chromium)('the model views in Chromium', () => {
-  let site: string;
+  let wb: Workbench | undefined;
   let served: Served;
   let b: Browser;
   let page: Page;
@@ -35,9 +35,8 @@ describe.skipIf(!chromium)('the model views in Chromium', () => {
   const nav = (name: string) => page.getByRole('navigation').getByRole('button', { name, exact: true }).click();
 
   beforeAll(async () => {
-    site = await buildSite();
-    served = await serveSite(site);
-    b = await launch(chromium!);
+    wb = await openWorkbench(chromium!);
+    ({ served, browser: b } = wb);
     page = b.page;
     work = mkdtempSync(join(tmpdir(), 'rw-e2e-views-'));
     await page.goto(served.url);
@@ -49,9 +48,7 @@ describe.skipIf(!chromium)('the model views in Chromium', () => {
   });
 
   afterAll(async () => {
-    await b?.close();
-    await served?.close();
-    if (site) rmSync(site, { recursive: true, force: true });
+    await wb?.close();
     if (work) rmSync(work, { recursive: true, force: true });
   });
 

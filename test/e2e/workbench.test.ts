@@ -19,14 +19,14 @@ import type { Download, Page } from 'playwright-core';
 import { inverse as mlInverse, Matrix as MlMatrix } from 'ml-matrix';
 import { checks } from '../../engine/index';
 import { readTableFile, writeWorkbook } from '../../src/io/index';
-import type { Browser, Served } from './helpers';
-import { buildSite, launch, REPO, requireChromium, screenshot, serveSite } from './helpers';
+import type { Browser, Served, Workbench } from './helpers';
+import { openWorkbench, REPO, requireChromium, screenshot } from './helpers';
 import { BEA_DIR, BEA_SOURCE, beaAvailable, readTriplets } from '../helpers/reference';
 
 const chromium = requireChromium('the workbench browser test');
 
 describe.skipIf(!chromium)('the workbench in Chromium: files, projects and export', () => {
-  let site: string;
+  let wb: Workbench | undefined;
   let served: Served;
   let b: Browser;
   let page: Page;
@@ -61,16 +61,13 @@ describe.skipIf(!chromium)('the workbench in Chromium: files, projects and expor
     csvPath = join(work, 'coast-edited.csv');
     writeFileSync(csvPath, lines.join('\n'));
     csvBytes = new Uint8Array(readFileSync(csvPath));
-    site = await buildSite();
-    served = await serveSite(site);
-    b = await launch(chromium!);
+    wb = await openWorkbench(chromium!);
+    ({ served, browser: b } = wb);
     page = b.page;
   });
 
   afterAll(async () => {
-    await b?.close();
-    await served?.close();
-    if (site) rmSync(site, { recursive: true, force: true });
+    await wb?.close();
     if (work) rmSync(work, { recursive: true, force: true });
   });
 

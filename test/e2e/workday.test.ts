@@ -21,13 +21,13 @@ import { checks, makeTable, measures } from '../../engine/index';
 import type { PlainTable } from '../../engine/index';
 import { readTableFile } from '../../src/io/index';
 import { readScenarios } from '../../src/project/scenarios';
-import type { Browser, Served } from './helpers';
-import { buildSite, launch, REPO, requireChromium, screenshot, serveSite } from './helpers';
+import type { Browser, Served, Workbench } from './helpers';
+import { openWorkbench, REPO, requireChromium, screenshot } from './helpers';
 
 const chromium = requireChromium('the working-day browser test');
 
 describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, banner, tidy CSV, narrow screens', () => {
-  let site: string;
+  let wb: Workbench | undefined;
   let served: Served;
   let b: Browser;
   let page: Page;
@@ -81,16 +81,13 @@ describe.skipIf(!chromium)('the workbench in Chromium: projects, validation, ban
     expect(checks(makeTable(failing)).some((f) => f.severity === 'error')).toBe(true);
     failingPath = join(work, 'failing.json');
     writeFileSync(failingPath, JSON.stringify(failing));
-    site = await buildSite();
-    served = await serveSite(site);
-    b = await launch(chromium!, { width: 1440, height: 900 });
+    wb = await openWorkbench(chromium!, { width: 1440, height: 900 });
+    ({ served, browser: b } = wb);
     page = b.page;
   }, 240_000);
 
   afterAll(async () => {
-    await b?.close();
-    await served?.close();
-    if (site) rmSync(site, { recursive: true, force: true });
+    await wb?.close();
     if (work) rmSync(work, { recursive: true, force: true });
   });
 
